@@ -1,0 +1,53 @@
+// Error types shared by every layer. Each carries enough context to point a user
+// at the offending file, line and field; the CLI maps them to exit codes and the
+// HTTP layer to RFC 7807 problem types.
+#pragma once
+
+#include <cstdint>
+#include <stdexcept>
+#include <string>
+
+namespace strandline {
+
+// Process exit codes of the CLI (documented in the formats reference).
+inline constexpr int kExitOk = 0;
+inline constexpr int kExitInternal = 1;
+inline constexpr int kExitBadInput = 2;
+
+// A malformed value inside one field: raised by low-level parsers that do not
+// know the file or line; callers wrap it into an InputError.
+class FieldError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
+// Bad user input (file content, option value, configuration). `what()` is the
+// full message, e.g. `obs.csv:1043: time "2019-13-01T00:00Z": month out of range`.
+class InputError : public std::runtime_error {
+ public:
+  explicit InputError(const std::string& message) : std::runtime_error(message) {}
+  InputError(const std::string& file, std::int64_t line, const std::string& field,
+             const std::string& value, const std::string& reason);
+
+  // Location parts, kept for machine-readable error reports (HTTP problem rows).
+  std::string file;
+  std::int64_t line = 0;  // 1-based; 0 when the error concerns the whole file
+  std::string field;
+  std::string reason;
+};
+
+// Bad command line or option combination.
+class UsageError : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
+// Invalid pipeline configuration; the message starts with the JSON pointer.
+class ConfigError : public std::runtime_error {
+ public:
+  ConfigError(const std::string& pointer, const std::string& reason)
+      : std::runtime_error(pointer + ": " + reason), pointer(pointer) {}
+  std::string pointer;
+};
+
+}  // namespace strandline

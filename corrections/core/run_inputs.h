@@ -1,0 +1,83 @@
+// Everything a run reads besides the points: water levels, waves, slopes, the
+// sensor table, reference elevations. Sources are interfaces so that gauge
+// series, harmonic predictions and stored server data plug in alike.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <unordered_map>
+
+#include <nlohmann/json.hpp>
+
+#include "corrections/core/sensor_table.h"
+#include "corrections/core/site_table.h"
+#include "corrections/core/time_utc.h"
+
+namespace strandline {
+
+struct WaterLevelAt {
+  double level_m = kUnknown;  // on the site datum
+  double sigma_m = kUnknown;  // 1-sigma, vertical; unknown when the source cannot say
+  bool predicted = false;     // from harmonic constituents rather than a gauge
+};
+
+class WaterLevelSource {
+ public:
+  virtual ~WaterLevelSource() = default;
+  // The level at `time_s`, or nothing when the source cannot give one without
+  // extrapolating (outside the record, or the samples around `time_s` are more
+  // than `max_gap_s` apart).
+  virtual std::optional<WaterLevelAt> at(TimeS time_s, double max_gap_s) const = 0;
+  // For provenance: kind, record span, limits.
+  virtual nlohmann::json describe() const = 0;
+};
+
+struct WaveAt {
+  double hs_m = kUnknown;
+  double tp_s = kUnknown;
+  double dir_deg = kUnknown;
+  double depth_m = kUnknown;  // depth of the record (nearshore buoy); unknown = deep water
+};
+
+class WaveSource {
+ public:
+  virtual ~WaveSource() = default;
+  // Conditions at `time_s`, or nothing outside the record or across a gap
+  // longer than `max_gap_s`.
+  virtual std::optional<WaveAt> at(TimeS time_s, double max_gap_s) const = 0;
+  virtual nlohmann::json describe() const = 0;
+};
+
+struct SlopeValue {
+  double slope = kUnknown;
+  double slope_sigma = kUnknown;
+};
+
+// How each transect gets its slope.
+struct SlopePlan {
+  std::optional<SlopeValue> all;                            // --slope VALUE
+  std::unordered_map<std::string, SlopeValue> per_transect;  // --slopes / --transect-params
+  std::optional<SlopeValue> default_value;                  // --default-slope
+  bool estimate = false;                                    // --slope auto
+  double search_min = 0.01;                                 // --slope-range
+  double search_max = 0.2;
+};
+
+enum class WaveCorrection { none, setup, runup };
+
+struct RunInputs {
+  double reference_elevation_m = 0.0;
+  std::unordered_map<std::string, double> z_ref_by_transect;  // overrides per transect
+  const WaterLevelSource* water_levels = nullptr;
+  const WaveSource* waves = nullptr;
+  WaveCorrection wave_correction = WaveCorrection::setup;
+  const SensorTable* sensors = nullptr;
+  SlopePlan slopes;
+
+  double z_ref_for(const std::string& transect_id) const {
+    auto it = z_ref_by_transect.find(transect_id);
+    return it == z_ref_by_transect.end() ? reference_elevation_m : it->second;
+  }
+};
+
+}  // namespace strandline

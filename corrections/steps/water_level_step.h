@@ -1,0 +1,26 @@
+// Step `water_level`: the still water level at each image time from the run's
+// WaterLevelSource; no value (and the no_water_level flag) where the source
+// cannot give one without extrapolating.
+#pragma once
+
+#include "corrections/core/step.h"
+
+namespace strandline {
+
+class WaterLevelStep final : public TransectStep {
+ public:
+  struct Params {
+    double max_gap_s = 3 * 3600.0;  // samples around an image time at most this far apart
+    double sigma_m = 0.10;  // 1-sigma of a gauge level at the beach (common practice: decimetres)
+    void validate(const std::string& pointer) const;
+  };
+  static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
+  explicit WaterLevelStep(const Params& p);
+  const Params& params() const { return p_; }
+
+ private:
+  void process(SiteTable& table, std::size_t transect, const RunInputs& inputs, StepLog& log) const override;
+  Params p_;
+};
+
+}  // namespace strandline

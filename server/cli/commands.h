@@ -1,0 +1,22 @@
+// The subcommands of `strandline`, listed explicitly in main.cpp (no static
+// self-registration). Each takes its own arguments (after the subcommand name)
+// and returns the process exit code; errors are thrown and mapped in main.
+#pragma once
+
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace strandline::cli {
+
+using CommandArgs = std::vector<std::string>;
+
+struct Command {
+  std::string_view name;
+  std::string_view summary;
+  int (*run)(const CommandArgs& args);
+};
+
+int run_correct(const CommandArgs& args);
+
+}  // namespace strandline::cli

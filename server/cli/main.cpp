@@ -1,0 +1,66 @@
+// `strandline SUBCOMMAND [options]`: the batch entry point and the service
+// launcher share this binary and the same engine.
+#include <cstdio>
+#include <exception>
+#include <iostream>
+
+#include "corrections/core/errors.h"
+#include "server/cli/commands.h"
+
+namespace {
+
+using strandline::cli::Command;
+
+const Command kCommands[] = {
+    {"correct", "correct raw shoreline positions for water level, waves and slope; QC; summary",
+     strandline::cli::run_correct},
+};
+
+void print_usage(std::ostream& out) {
+  out << "usage: strandline SUBCOMMAND [options]\n\nsubcommands:\n";
+  for (const auto& c : kCommands) {
+    out << "  " << c.name;
+    for (std::size_t i = c.name.size(); i < 14; ++i) out << ' ';
+    out << c.summary << "\n";
+  }
+  out << "\n`strandline SUBCOMMAND --help` lists a subcommand's options; `strandline version` prints the version.\n"
+         "Exit codes: 0 success, 1 internal failure, 2 bad input or usage.\n";
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  using namespace strandline;
+  if (argc < 2 || std::string_view(argv[1]) == "--help" || std::string_view(argv[1]) == "help") {
+    print_usage(argc < 2 ? std::cerr : std::cout);
+    return argc < 2 ? kExitBadInput : kExitOk;
+  }
+  const std::string_view name = argv[1];
+  if (name == "version" || name == "--version") {
+    std::cout << "strandline " << STRANDLINE_VERSION << "\n";
+    return kExitOk;
+  }
+  cli::CommandArgs args(argv + 2, argv + argc);
+  for (const auto& c : kCommands) {
+    if (c.name != name) continue;
+    try {
+      return c.run(args);
+    } catch (const UsageError& e) {
+      std::cerr << "strandline " << name << ": " << e.what() << "\n"
+                << "(see `strandline " << name << " --help`)\n";
+      return kExitBadInput;
+    } catch (const InputError& e) {
+      std::cerr << "strandline " << name << ": " << e.what() << "\n";
+      return kExitBadInput;
+    } catch (const ConfigError& e) {
+      std::cerr << "strandline " << name << ": configuration " << e.what() << "\n";
+      return kExitBadInput;
+    } catch (const std::exception& e) {
+      std::cerr << "strandline " << name << ": internal error: " << e.what() << "\n";
+      return kExitInternal;
+    }
+  }
+  std::cerr << "strandline: unknown subcommand \"" << name << "\"\n";
+  print_usage(std::cerr);
+  return kExitBadInput;
+}
