@@ -3,6 +3,7 @@
 #include <cmath>
 
 #include "corrections/core/param_reader.h"
+#include "corrections/waves/stockdon.h"
 
 namespace strandline {
 
@@ -31,10 +32,16 @@ void UncertaintyStep::process(SiteTable& table, std::size_t transect, const RunI
     if (!known(table.chainage_m[i])) continue;  // uncorrected: no position, no sigma
     const double s_sensor = sensor_sigma[table.sensor[i]];
     const double s_wl = table.water_level_sigma_m[i] / slope;
-    const double s_slope = t.slope_sigma * std::abs(table.water_level_m[i] - t.z_ref_m) / (slope * slope);
     double s_wave = 0.0;
     const bool wave_term_used = inputs.waves != nullptr && inputs.wave_correction != WaveCorrection::none &&
                                 known(table.wave_level_m[i]);
+    // With `runup` the wave term R2%/tan(beta) depends on the slope too (the
+    // setup's horizontal term does not): it adds a level c to |eta - z_ref|.
+    const double slope_level_m = wave_term_used && inputs.wave_correction == WaveCorrection::runup
+                                     ? runup_slope_sensitivity_level_m(table.hs0_m[i], table.l0_m[i], slope)
+                                     : 0.0;
+    const double s_slope =
+        t.slope_sigma * std::abs(table.water_level_m[i] - t.z_ref_m + slope_level_m) / (slope * slope);
     if (wave_term_used) s_wave = table.wave_sigma_m[i] / slope;
 
     table.sigma_sensor_m[i] = s_sensor;

@@ -3,7 +3,8 @@
 //   sensor       from the sensor table (class of the point's sensor)
 //   water level  sigma_eta / tan(beta)
 //   slope        sigma_tanb * |eta - z_ref| / tan(beta)^2   (the setup's horizontal
-//                term 0.35*sqrt(H0*L0) does not depend on the slope)
+//                term 0.35*sqrt(H0*L0) does not depend on the slope; with `runup`
+//                |eta - z_ref| gains the level c of runup_slope_sensitivity_level_m)
 //   wave term    sigma_wave / tan(beta)
 // A term that cannot be known is left out of sigma_m and named in a flag; it is
 // never counted as zero. The slope term is shared by all points of a transect:

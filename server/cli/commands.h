@@ -18,5 +18,6 @@ struct Command {
 };
 
 int run_correct(const CommandArgs& args);
+int run_runup(const CommandArgs& args);
 
 }  // namespace strandline::cli

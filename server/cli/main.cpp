@@ -14,6 +14,8 @@ using strandline::cli::Command;
 const Command kCommands[] = {
     {"correct", "correct raw shoreline positions for water level, waves and slope; QC; summary",
      strandline::cli::run_correct},
+    {"runup", "wave calculator: H0, L0, Iribarren, Stockdon (2006) setup, swash and R2% as JSON",
+     strandline::cli::run_runup},
 };
 
 void print_usage(std::ostream& out) {
