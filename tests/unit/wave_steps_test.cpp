@@ -1,0 +1,237 @@
+// The wave steps on synthetic transects whose raw waterlines contain the wave
+// setup (or R2%): with the matching correction the true positions come back,
+// with `none` the bias is the setup's horizontal term 0.35 sqrt(H0 L0).
+// Truth is computed here independently of the engine: deep-water records
+// (no deshoaling), the published Stockdon et al. (2006) coefficients written out.
+#include <cmath>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "corrections/steps/correct_step.h"
+#include "corrections/steps/slope_step.h"
+#include "corrections/steps/water_level_step.h"
+#include "corrections/steps/wave_conditions_step.h"
+#include "corrections/steps/wave_terms_step.h"
+#include "corrections/water_level/gauge_series.h"
+#include "corrections/waves/linear_waves.h"
+#include "corrections/waves/wave_record.h"
+#include "qc/uncertainty_step.h"
+
+namespace strandline {
+namespace {
+
+constexpr double kSlope = 0.04;
+constexpr double kZref = 0.0;
+constexpr double kG = 9.80665;
+constexpr double kTwoPi = 6.283185307179586;
+
+double true_position_m(double t_s) { return 120.0 + 6.0 * std::sin(kTwoPi * t_s / (365.25 * 86400.0)); }
+double tide_m(double t_s) { return 1.2 * std::cos(kTwoPi * t_s / (12.4206 * 3600.0)); }
+// Storms: Hs from 0.4 m to about 4.4 m, Tp 7 to 15 s.
+double hs_m(double t_s) { return 2.4 + 2.0 * std::sin(kTwoPi * t_s / (9.3 * 86400.0)); }
+double tp_s(double t_s) { return 11.0 + 4.0 * std::sin(kTwoPi * t_s / (13.7 * 86400.0) + 1.0); }
+
+struct Truth {
+  double setup_m, runup_m;
+};
+Truth stockdon_truth(double hs, double tp, double slope) {
+  const double l0 = kG * tp * tp / kTwoPi;
+  const double q = std::sqrt(hs * l0);
+  const double setup = 0.35 * slope * q;
+  const double xi = slope / std::sqrt(hs / l0);
+  const double swash = std::sqrt(std::pow(0.75 * slope * q, 2) + std::pow(0.06 * q, 2));
+  return {setup, xi < 0.3 ? 0.043 * q : 1.1 * (setup + swash / 2)};
+}
+
+struct Scenario {
+  SiteTable table;
+  std::vector<double> truth_x;
+  std::unique_ptr<GaugeSeries> gauge;
+  std::unique_ptr<WaveRecord> waves;
+  RunInputs inputs;
+};
+
+// One transect, images every 37 hours (on whole hours, so both records are
+// sampled exactly); the waterline seen sits at tide + `term` (setup or R2%).
+// `gap_hours`: a hole in the wave record (no samples) starting at day 20.
+std::unique_ptr<Scenario> make_scenario(bool data_has_runup, double gap_hours = 0, double record_depth_m = kUnknown) {
+  auto s = std::make_unique<Scenario>();
+  const double t0 = 1.6e9 - std::fmod(1.6e9, 3600.0);
+  std::vector<TimeS> gauge_t;
+  std::vector<double> gauge_z;
+  std::vector<WaveSample> wave_samples;
+  const int hours = 24 * 200;
+  for (int h = 0; h <= hours; ++h) {
+    const double t = t0 + h * 3600.0;
+    gauge_t.push_back(t);
+    gauge_z.push_back(tide_m(t));
+    const bool in_gap = gap_hours > 0 && h > 24 * 20 && h < 24 * 20 + gap_hours;
+    if (!in_gap) {
+      // A nearshore record holds the shoaled height of the deep-water truth.
+      const double ks = known(record_depth_m) ? linear_wave(tp_s(t), record_depth_m).shoaling_coefficient : 1.0;
+      wave_samples.push_back({t, hs_m(t) * ks, tp_s(t), 280.0, record_depth_m});
+    }
+  }
+  s->gauge = std::make_unique<GaugeSeries>(gauge_t, gauge_z, 0.05);
+  s->waves = std::make_unique<WaveRecord>(wave_samples);
+
+  SiteTableBuilder b;
+  const auto tr = b.transect_index("T01");
+  const auto sensor = b.sensor_index("S2");
+  std::uint32_t row = 0;
+  for (int h = 5; h < hours; h += 37) {
+    const double t = t0 + h * 3600.0;
+    const Truth w = stockdon_truth(hs_m(t), tp_s(t), kSlope);
+    const double level = tide_m(t) + (data_has_runup ? w.runup_m : w.setup_m);
+    const double raw = true_position_m(t) - (level - kZref) / kSlope;
+    b.add(tr, b.image_index("img" + std::to_string(h)), sensor, {row++, t, raw});
+  }
+  s->table = std::move(b).build();
+  for (std::size_t i = 0; i < s->table.size(); ++i) s->truth_x.push_back(true_position_m(s->table.time_s[i]));
+  s->inputs.reference_elevation_m = kZref;
+  s->inputs.water_levels = s->gauge.get();
+  s->inputs.waves = s->waves.get();
+  s->inputs.slopes.all = SlopeValue{kSlope, 0.005};
+  return s;
+}
+
+void run_steps(Scenario& s, WaveCorrection correction) {
+  s.inputs.wave_correction = correction;
+  s.table.reset_derived();
+  s.table.transects[0].z_ref_m = kZref;
+  std::vector<std::unique_ptr<Step>> steps;
+  steps.push_back(WaterLevelStep::make(nullptr, "/steps/water_level"));
+  steps.push_back(WaveConditionsStep::make(nullptr, "/steps/wave_conditions"));
+  steps.push_back(SlopeStep::make(nullptr, "/steps/slope"));
+  steps.push_back(WaveTermsStep::make(nullptr, "/steps/wave_terms"));
+  steps.push_back(CorrectStep::make(nullptr, "/steps/correct"));
+  steps.push_back(UncertaintyStep::make(nullptr, "/steps/uncertainty"));
+  for (const auto& step : steps) {
+    StepLog log;
+    static_cast<const TransectStep&>(*step).run(s.table, 0, s.inputs, log);
+  }
+}
+
+TEST(WaveSteps, SetupCorrectionRecoversPositions) {
+  auto s = make_scenario(false);
+  run_steps(*s, WaveCorrection::setup);
+  const SiteTable& t = s->table;
+  ASSERT_GT(t.size(), 100u);
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    const Truth w = stockdon_truth(hs_m(t.time_s[i]), tp_s(t.time_s[i]), kSlope);
+    EXPECT_NEAR(t.setup_m[i], w.setup_m, 1e-12);
+    EXPECT_NEAR(t.runup_m[i], w.runup_m, 1e-12);
+    EXPECT_DOUBLE_EQ(t.wave_level_m[i], t.setup_m[i]);
+    EXPECT_DOUBLE_EQ(t.wave_sigma_m[i], 0.38);
+    EXPECT_NEAR(t.chainage_m[i], s->truth_x[i], 1e-9);
+    EXPECT_FALSE(has_flag(t.flags[i], Flag::no_wave_data));
+  }
+}
+
+TEST(WaveSteps, NoCorrectionLeavesTheSetupBias) {
+  auto s = make_scenario(false);
+  run_steps(*s, WaveCorrection::none);
+  const SiteTable& t = s->table;
+  double mean_bias = 0, mean_expected = 0;
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    const double l0 = kG * std::pow(tp_s(t.time_s[i]), 2) / kTwoPi;
+    const double expected_bias = -0.35 * std::sqrt(hs_m(t.time_s[i]) * l0);  // slope-free
+    EXPECT_NEAR(t.chainage_m[i] - s->truth_x[i], expected_bias, 1e-9);
+    EXPECT_EQ(t.wave_level_m[i], 0.0);
+    EXPECT_TRUE(known(t.setup_m[i]));  // filled whenever waves are given
+    mean_bias += t.chainage_m[i] - s->truth_x[i];
+    mean_expected += expected_bias;
+  }
+  mean_bias /= t.size();
+  mean_expected /= t.size();
+  EXPECT_NEAR(mean_bias, mean_expected, 1e-9);
+  EXPECT_LT(mean_bias, -5.0);  // Hs 0.4-4.4 m on a 1:25 beach: metres to tens of metres landward
+}
+
+TEST(WaveSteps, RunupCorrectionRecoversPositionsInBothRegimes) {
+  auto s = make_scenario(true);
+  run_steps(*s, WaveCorrection::runup);
+  const SiteTable& t = s->table;
+  int dissipative = 0;
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    const double l0 = kG * std::pow(tp_s(t.time_s[i]), 2) / kTwoPi;
+    dissipative += kSlope / std::sqrt(hs_m(t.time_s[i]) / l0) < 0.3;
+    EXPECT_DOUBLE_EQ(t.wave_level_m[i], t.runup_m[i]);
+    EXPECT_NEAR(t.chainage_m[i], s->truth_x[i], 1e-9);
+  }
+  EXPECT_GT(dissipative, 5);
+  EXPECT_LT(dissipative, static_cast<int>(t.size()) - 5);
+}
+
+TEST(WaveSteps, SetupCorrectionOfRunupDataLeavesTheSwashPart) {
+  auto s = make_scenario(true);
+  run_steps(*s, WaveCorrection::setup);
+  const SiteTable& t = s->table;
+  for (std::size_t i = 0; i < t.size(); ++i)
+    EXPECT_NEAR(t.chainage_m[i] - s->truth_x[i], -(t.runup_m[i] - t.setup_m[i]) / kSlope, 1e-9);
+}
+
+TEST(WaveSteps, NearshoreRecordIsDeshoaled) {
+  auto s = make_scenario(false, 0, 12.0);
+  run_steps(*s, WaveCorrection::setup);
+  const SiteTable& t = s->table;
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    EXPECT_NEAR(t.hs0_m[i], hs_m(t.time_s[i]), 1e-9);
+    EXPECT_NEAR(t.chainage_m[i], s->truth_x[i], 1e-7);
+  }
+}
+
+TEST(WaveSteps, GapInWaveRecordFlagsAndLeavesTermsEmpty) {
+  auto s = make_scenario(false, 30.0);
+  run_steps(*s, WaveCorrection::setup);
+  const SiteTable& t = s->table;
+  int flagged = 0;
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    if (!has_flag(t.flags[i], Flag::no_wave_data)) continue;
+    ++flagged;
+    for (double v : {t.hs0_m[i], t.l0_m[i], t.setup_m[i], t.runup_m[i], t.wave_level_m[i], t.wave_sigma_m[i],
+                     t.sigma_wave_m[i]})
+      EXPECT_FALSE(known(v));
+    // Tide-only correction kept, with the warning.
+    EXPECT_NEAR(t.chainage_m[i], t.chainage_raw_m[i] + (t.water_level_m[i] - kZref) / kSlope, 1e-9);
+    EXPECT_TRUE(t.accepted(i));
+  }
+  EXPECT_GE(flagged, 1);
+}
+
+TEST(WaveSteps, WithoutWaveRecordWaveColumnsStayEmpty) {
+  auto s = make_scenario(false);
+  s->inputs.waves = nullptr;
+  run_steps(*s, WaveCorrection::setup);
+  const SiteTable& t = s->table;
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    EXPECT_FALSE(known(t.hs0_m[i]));
+    EXPECT_FALSE(known(t.setup_m[i]));
+    EXPECT_FALSE(known(t.wave_level_m[i]));
+    EXPECT_FALSE(has_flag(t.flags[i], Flag::no_wave_data));
+  }
+}
+
+TEST(WaveSteps, UncertaintyCarriesScatterAndRunupSlopeSensitivity) {
+  auto s = make_scenario(true);
+  run_steps(*s, WaveCorrection::runup);
+  const SiteTable& t = s->table;
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    EXPECT_NEAR(t.sigma_wave_m[i], 0.38 / kSlope, 1e-12);
+    // Independent slope sensitivity: numerical derivative of R2%/beta written out here.
+    const double hs = hs_m(t.time_s[i]), tp = tp_s(t.time_s[i]);
+    const double db = 1e-7;
+    const double d_shift = ((t.water_level_m[i] - kZref + stockdon_truth(hs, tp, kSlope + db).runup_m) / (kSlope + db) -
+                            (t.water_level_m[i] - kZref + stockdon_truth(hs, tp, kSlope - db).runup_m) / (kSlope - db)) /
+                           (2 * db);
+    EXPECT_NEAR(t.sigma_slope_m[i], 0.005 * std::abs(d_shift), 1e-4 * std::max(1.0, t.sigma_slope_m[i]));
+  }
+  // With `setup` the setup's horizontal term is slope-free: the tide alone sets the slope term.
+  run_steps(*s, WaveCorrection::setup);
+  for (std::size_t i = 0; i < t.size(); ++i)
+    EXPECT_NEAR(t.sigma_slope_m[i], 0.005 * std::abs(t.water_level_m[i] - kZref) / (kSlope * kSlope), 1e-9);
+}
+
+}  // namespace
+}  // namespace strandline
