@@ -1,0 +1,21 @@
+// Linear detrending: the residual of a least-squares line y ~ a + b t. Linear in
+// y, so detrend(x + s w) = detrend(x) + s detrend(w): the slope search may
+// detrend the two parts once.
+#pragma once
+
+#include <span>
+#include <vector>
+
+namespace strandline::spectral {
+
+struct LineFit {
+  double intercept = 0;  // a
+  double slope = 0;      // b (per time unit)
+};
+
+// Least-squares line through (t, y); a constant when all t are equal; zero for no points.
+LineFit fit_line(std::span<const double> t, std::span<const double> y);
+
+std::vector<double> detrend_linear(std::span<const double> t, std::span<const double> y);
+
+}  // namespace strandline::spectral
