@@ -1,13 +1,106 @@
-#include "server/cli/commands.h"
+// `strandline correct`: the batch correction. Reads the inputs, runs the
+// pipeline over the compact table, writes the cleaned rows (re-streaming the
+// input so extra columns are carried through), the rejected rows when asked,
+// and the summary JSON with provenance. Every output is written atomically.
+#include <unistd.h>
 
+#include <chrono>
+#include <cstdio>
+#include <filesystem>
 #include <iostream>
 
 #include "corrections/core/errors.h"
+#include "qc/summary.h"
+#include "server/cli/batch_inputs.h"
+#include "server/cli/commands.h"
+#include "server/io/atomic_file.h"
+#include "server/io/cleaned_rows.h"
 
 namespace strandline::cli {
 
-int run_correct(const CommandArgs&) {
-  throw UsageError("correct: not wired yet");
+namespace {
+
+std::string now_utc() {
+  using namespace std::chrono;
+  return format_time_utc(std::floor(duration<double>(system_clock::now().time_since_epoch()).count()));
+}
+
+std::string default_rejected_path(const std::string& out) {
+  std::filesystem::path p(out);
+  return (p.parent_path() / (p.stem().string() + ".rejected.csv")).string();
+}
+
+const char* kHelp =
+    "usage: strandline correct --observations FILE --water-levels FILE (--slope VALUE | --slopes FILE | ...)\n"
+    "                          --out cleaned.csv [--summary summary.json] [options]\n\n"
+    "Corrects raw shoreline positions to the reference contour, runs the QC filters and writes one\n"
+    "row per valid input row with flags and sigma_m.\n\noptions:\n";
+
+}  // namespace
+
+int run_correct(const CommandArgs& argv) {
+  Args args(argv, {"skip-invalid", "help", "quiet"});
+  if (args.flag("help")) {
+    std::cout << kHelp << batch_options_help()
+              << "  --out FILE                 cleaned rows (CSV)\n"
+                 "  --summary FILE             per-transect summary JSON with provenance\n"
+                 "  --skip-invalid             write bad rows to --rejected and go on (default: stop at the first)\n"
+                 "  --rejected FILE            rejected rows with reasons (default: OUT stem + .rejected.csv)\n"
+                 "  --quiet                    no progress on the terminal\n";
+    return kExitOk;
+  }
+  const std::string started = now_utc();
+  const bool skip_invalid = args.flag("skip-invalid");
+  const bool quiet = args.flag("quiet");
+  const std::string out_path = args.require("out");
+  const auto summary_path = args.get("summary");
+  auto rejected_path = args.get("rejected");
+  if (rejected_path && !skip_invalid) throw UsageError("option --rejected goes with --skip-invalid");
+  if (skip_invalid && !rejected_path) rejected_path = default_rejected_path(out_path);
+
+  BatchInputs batch = load_batch_inputs(args, {skip_invalid});
+  args.finish();
+  check_slope_coverage(batch);
+
+  SiteTable& table = batch.observations.table;
+  const bool show_progress = !quiet && ::isatty(STDERR_FILENO);
+  const ProgressFn progress = [&](std::size_t done, std::size_t total) {
+    if (show_progress && (done == total || done % 50 == 0))
+      std::fprintf(stderr, "\rprocessing transects %zu/%zu", done, total);
+  };
+  const RunRecord record = batch.pipeline.run(table, batch.inputs, progress);
+  if (show_progress) std::fprintf(stderr, "\n");
+
+  CleanedRowStream rows(batch.observations_path, batch.observations, table);
+  write_cleaned_csv(rows, out_path, rejected_path ? *rejected_path : "");
+
+  std::size_t accepted = 0;
+  for (std::size_t i = 0; i < table.size(); ++i) accepted += table.accepted(i) ? 1 : 0;
+  if (summary_path) {
+    nlohmann::json summary = site_summary(table, batch.inputs, SummaryOptions{});
+    summary["provenance"] = {{"version", STRANDLINE_VERSION},
+                             {"command", "correct"},
+                             {"parameters", batch.parameters},
+                             {"configuration", batch.pipeline.config()},
+                             {"inputs", batch.input_files},
+                             {"water_levels", batch.inputs.water_levels->describe()},
+                             {"steps", record.to_json()},
+                             {"rows", {{"input", batch.observations.data_rows},
+                                       {"rejected", batch.observations.rejected.size()},
+                                       {"cleaned", table.size()},
+                                       {"accepted", accepted}}},
+                             {"started", started},
+                             {"finished", now_utc()}};
+    write_file_atomically(*summary_path, summary.dump(2) + "\n");
+  }
+  if (!quiet) {
+    std::cerr << "corrected " << table.size() << " rows on " << table.transects.size() << " transects ("
+              << accepted << " accepted";
+    if (skip_invalid) std::cerr << ", " << batch.observations.rejected.size() << " rejected rows in " << *rejected_path;
+    std::cerr << ")\ncleaned rows: " << out_path << "\n";
+    if (summary_path) std::cerr << "summary: " << *summary_path << "\n";
+  }
+  return kExitOk;
 }
 
 }  // namespace strandline::cli

@@ -1,0 +1,184 @@
+#include "server/io/cleaned_rows.h"
+
+#include <cstdio>
+#include <fstream>
+#include <stdexcept>
+
+#include "corrections/core/csv_reader.h"
+#include "corrections/core/errors.h"
+#include "server/io/atomic_file.h"
+
+namespace strandline {
+
+const std::vector<ColumnSpec>& cleaned_columns() {
+  using K = ColumnSpec::Kind;
+  static const std::vector<ColumnSpec> columns = {
+      {"transect_id", K::text},         {"time", K::text},
+      {"sensor", K::text},              {"image_id", K::text},
+      {"chainage_raw_m", K::real, 3},   {"water_level_m", K::real, 3},
+      {"setup_m", K::real, 3},          {"runup_m", K::real, 3},
+      {"wave_level_m", K::real, 3},     {"z_ref_m", K::real, 3},
+      {"slope", K::real, 5},            {"correction_m", K::real, 3},
+      {"chainage_m", K::real, 3},       {"sigma_m", K::real, 2},
+      {"sigma_sensor_m", K::real, 2},   {"sigma_water_level_m", K::real, 2},
+      {"sigma_slope_m", K::real, 2},    {"sigma_wave_m", K::real, 2},
+      {"cloud_fraction", K::real, 3},   {"georef_rmse_m", K::real, 2},
+      {"flags", K::text},               {"accepted", K::integer},
+  };
+  return columns;
+}
+
+namespace {
+CellValue real(double v) { return known(v) ? CellValue{v} : CellValue{}; }
+}  // namespace
+
+void cleaned_values(const SiteTable& t, std::size_t i, std::vector<CellValue>& out) {
+  const TransectInfo& tr = t.transects[t.transect[i]];
+  const bool has_slope = known(tr.slope);
+  out.clear();
+  out.emplace_back(tr.id);
+  out.emplace_back(format_time_utc(t.time_s[i]));
+  out.emplace_back(t.sensor_names[t.sensor[i]]);
+  out.emplace_back(t.image_ids[t.image[i]]);
+  out.push_back(real(t.chainage_raw_m[i]));
+  out.push_back(real(t.water_level_m[i]));
+  out.push_back(real(t.setup_m[i]));
+  out.push_back(real(t.runup_m[i]));
+  out.push_back(real(t.wave_level_m[i]));
+  out.push_back(real(tr.z_ref_m));
+  out.push_back(has_slope ? real(tr.slope) : CellValue{});
+  out.push_back(real(t.correction_m[i]));
+  out.push_back(real(t.chainage_m[i]));
+  out.push_back(real(t.sigma_m[i]));
+  out.push_back(real(t.sigma_sensor_m[i]));
+  out.push_back(real(t.sigma_water_level_m[i]));
+  out.push_back(real(t.sigma_slope_m[i]));
+  out.push_back(real(t.sigma_wave_m[i]));
+  out.push_back(real(t.cloud_fraction[i]));
+  out.push_back(real(t.georef_rmse_m[i]));
+  out.emplace_back(flag_list(t.flags[i]));
+  out.emplace_back(std::int64_t{t.accepted(i) ? 1 : 0});
+}
+
+nlohmann::json cleaned_row_json(const SiteTable& t, std::size_t i) {
+  std::vector<CellValue> values;
+  cleaned_values(t, i, values);
+  const auto& cols = cleaned_columns();
+  nlohmann::json j = nlohmann::json::object();
+  for (std::size_t c = 0; c < cols.size(); ++c) {
+    const auto& v = values[c];
+    if (cols[c].name == "flags") {
+      nlohmann::json names = nlohmann::json::array();
+      for (auto n : flag_names(t.flags[i])) names.push_back(std::string(n));
+      j["flags"] = names;
+    } else if (cols[c].name == "accepted") {
+      j["accepted"] = t.accepted(i);
+    } else if (std::holds_alternative<std::monostate>(v)) {
+      j[cols[c].name] = nullptr;
+    } else if (auto* d = std::get_if<double>(&v)) {
+      j[cols[c].name] = *d;
+    } else if (auto* n = std::get_if<std::int64_t>(&v)) {
+      j[cols[c].name] = *n;
+    } else {
+      j[cols[c].name] = std::get<std::string>(v);
+    }
+  }
+  return j;
+}
+
+std::string format_cell(const CellValue& value, const ColumnSpec& spec) {
+  if (std::holds_alternative<std::monostate>(value)) return "";
+  if (auto* d = std::get_if<double>(&value)) {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%.*f", spec.decimals, *d);
+    return buf;
+  }
+  if (auto* n = std::get_if<std::int64_t>(&value)) return std::to_string(*n);
+  return csv_escape(std::get<std::string>(value));
+}
+
+CleanedRowStream::CleanedRowStream(const std::string& input_path, const ObservationFile& observations,
+                                   const SiteTable& table)
+    : input_path_(input_path), observations_(observations), table_(table) {
+  table_row_of_input_.assign(observations.data_rows, -1);
+  for (std::size_t i = 0; i < table.size(); ++i) table_row_of_input_.at(table.input_row[i]) = static_cast<std::int64_t>(i);
+}
+
+std::vector<ColumnSpec> CleanedRowStream::columns() const {
+  std::vector<ColumnSpec> cols = cleaned_columns();
+  for (auto c : observations_.columns.extra) {
+    std::string name = observations_.header[c];
+    // An input column that shares an engine column's name is kept under a prefix.
+    for (const auto& e : cleaned_columns())
+      if (e.name == name) name = "input_" + name;
+    cols.push_back({name, ColumnSpec::Kind::text});
+  }
+  return cols;
+}
+
+void CleanedRowStream::stream(const RowFn& on_row, const RejectedFn& on_rejected) const {
+  std::ifstream in(input_path_, std::ios::binary);
+  if (!in) throw std::runtime_error("cannot re-read " + input_path_);
+  CsvReader reader(in, input_path_);
+  std::vector<std::string> fields;
+  reader.next(fields);  // header
+  std::vector<CellValue> values;
+  std::size_t rejected_index = 0;
+  for (std::size_t data_row = 0; data_row < table_row_of_input_.size(); ++data_row) {
+    if (!reader.next(fields)) throw std::runtime_error(input_path_ + " changed while it was being processed");
+    const std::int64_t row = table_row_of_input_[data_row];
+    if (row < 0) {
+      while (rejected_index < observations_.rejected.size() &&
+             observations_.rejected[rejected_index].input_row < data_row)
+        ++rejected_index;
+      static const RowProblem unknown{0, "", "", "rejected"};
+      const RowProblem& p = rejected_index < observations_.rejected.size() &&
+                                    observations_.rejected[rejected_index].input_row == data_row
+                                ? observations_.rejected[rejected_index].problem
+                                : unknown;
+      if (on_rejected) on_rejected(fields, p);
+      continue;
+    }
+    cleaned_values(table_, static_cast<std::size_t>(row), values);
+    for (auto c : observations_.columns.extra) values.emplace_back(c < fields.size() ? fields[c] : std::string());
+    on_row(static_cast<std::size_t>(row), values);
+  }
+}
+
+void write_cleaned_csv(const CleanedRowStream& rows, const std::string& out_path, const std::string& rejected_path) {
+  const auto cols = rows.columns();
+  AtomicFile out(out_path);
+  auto& o = out.stream();
+  for (std::size_t c = 0; c < cols.size(); ++c) o << (c ? "," : "") << csv_escape(cols[c].name);
+  o << '\n';
+  std::unique_ptr<AtomicFile> rejected;
+  if (!rejected_path.empty()) {
+    rejected = std::make_unique<AtomicFile>(rejected_path);
+    auto& r = rejected->stream();
+    r << "line,field,value,reason";
+    for (const auto& h : rows.input_header()) r << ',' << csv_escape(h);
+    r << '\n';
+  }
+  std::string line;
+  rows.stream(
+      [&](std::size_t, const std::vector<CellValue>& values) {
+        line.clear();
+        for (std::size_t c = 0; c < cols.size(); ++c) {
+          if (c) line += ',';
+          line += format_cell(values[c], cols[c]);
+        }
+        line += '\n';
+        o << line;
+      },
+      [&](const std::vector<std::string>& fields, const RowProblem& p) {
+        if (!rejected) return;
+        auto& r = rejected->stream();
+        r << p.line << ',' << csv_escape(p.field) << ',' << csv_escape(p.value) << ',' << csv_escape(p.reason);
+        for (const auto& f : fields) r << ',' << csv_escape(f);
+        r << '\n';
+      });
+  out.commit();
+  if (rejected) rejected->commit();
+}
+
+}  // namespace strandline

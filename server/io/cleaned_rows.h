@@ -1,0 +1,66 @@
+// The cleaned-output row model shared by every writer (CSV here, GeoPackage and
+// GeoJSON in server/geo, JSON over HTTP): the engine's columns for a table row,
+// then the input's carried-through columns. Unknown values are empty cells in
+// CSV and null in JSON; flags are `;`-joined in CSV and arrays in JSON.
+#pragma once
+
+#include <cstdint>
+#include <functional>
+#include <string>
+#include <variant>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "corrections/core/site_table.h"
+#include "server/io/observations_csv.h"
+
+namespace strandline {
+
+using CellValue = std::variant<std::monostate, double, std::int64_t, std::string>;
+
+struct ColumnSpec {
+  std::string name;
+  enum class Kind { text, real, integer } kind;
+  int decimals = 3;  // for real columns in text outputs
+};
+
+// The engine's columns, in output order.
+const std::vector<ColumnSpec>& cleaned_columns();
+
+// Values of the engine's columns for one table row (same order as cleaned_columns()).
+void cleaned_values(const SiteTable& table, std::size_t row, std::vector<CellValue>& out);
+
+// One row as JSON (flags as an array, unknown values null, sigma terms listed).
+nlohmann::json cleaned_row_json(const SiteTable& table, std::size_t row);
+
+// Text form of a cell for CSV.
+std::string format_cell(const CellValue& value, const ColumnSpec& spec);
+
+// Streams the observation file again, in input order, joining each valid row
+// with its table row (extra columns carried through) and each rejected row with
+// its problem. Memory stays bounded by the table: input text is never held.
+class CleanedRowStream {
+ public:
+  CleanedRowStream(const std::string& input_path, const ObservationFile& observations, const SiteTable& table);
+
+  // Engine columns followed by the input's extra columns.
+  std::vector<ColumnSpec> columns() const;
+  const std::vector<std::string>& input_header() const { return observations_.header; }
+
+  using RowFn = std::function<void(std::size_t table_row, const std::vector<CellValue>& values)>;
+  using RejectedFn = std::function<void(const std::vector<std::string>& input_fields, const RowProblem& problem)>;
+  void stream(const RowFn& on_row, const RejectedFn& on_rejected) const;
+
+ private:
+  std::string input_path_;
+  const ObservationFile& observations_;
+  const SiteTable& table_;
+  std::vector<std::int64_t> table_row_of_input_;  // -1 for rejected rows
+};
+
+// Writes cleaned.csv (every valid row) and, when `rejected_path` is not empty,
+// the rejected rows with their reasons; both atomically.
+void write_cleaned_csv(const CleanedRowStream& rows, const std::string& out_path, const std::string& rejected_path);
+
+}  // namespace strandline
