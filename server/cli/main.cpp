@@ -14,6 +14,9 @@ using strandline::cli::Command;
 const Command kCommands[] = {
     {"correct", "correct raw shoreline positions for water level, waves and slope; QC; summary",
      strandline::cli::run_correct},
+    {"intersect", "intersect shoreline polylines with transects into the batch observation CSV",
+     strandline::cli::run_intersect},
+    {"transects", "generate shore-normal transects along a baseline polyline", strandline::cli::run_transects},
     {"runup", "wave calculator: H0, L0, Iribarren, Stockdon (2006) setup, swash and R2% as JSON",
      strandline::cli::run_runup},
 };

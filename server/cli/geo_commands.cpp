@@ -1,0 +1,164 @@
+// Geodata subcommands: `intersect` (shoreline polylines x transects -> batch
+// observation CSV) and `transects` (shore-normal transects along a baseline).
+#include <fstream>
+#include <iostream>
+
+#include "corrections/core/errors.h"
+#include "server/cli/args.h"
+#include "server/cli/commands.h"
+#include "server/geo/baseline_transects.h"
+#include "server/geo/crossing_csv.h"
+#include "server/geo/shoreline_intersect.h"
+#include "server/geo/transect_reader.h"
+#include "server/geo/result_writer.h"
+
+namespace strandline::cli {
+
+namespace {
+
+constexpr const char* kIntersectHelp = R"(usage: strandline intersect --shorelines FILE --transects FILE --out obs.csv [options]
+
+Intersects shoreline polylines (one or more per image) with transects and writes
+the batch observation CSV: one row per transect crossed per image.
+
+  --shorelines FILE       polylines (GeoPackage, GeoJSON, Shapefile, FlatGeobuf, ...)
+  --shorelines-layer NAME layer of FILE when it has several
+  --transects FILE        transect lines (origin = first vertex) or points with
+                          azimuth and length attributes
+  --transects-layer NAME  layer of the transects file when it has several
+  --out FILE              observation CSV ("-" for standard output)
+  --crs CRS               work CRS when the transects are not projected
+                          (EPSG code, WKT or PROJ string); default: UTM zone
+                          of the transects' centroid
+  --crossing RULE         several crossings: most-seaward (default),
+                          most-landward, or flag-only (leave the pair out)
+  --transect-id-field N   transect id attribute (default transect_id)
+  --azimuth-field N       point transects: azimuth attribute (default azimuth_deg)
+  --length-field N        point transects: length attribute (default length_m)
+  --time-field N          shoreline attributes (defaults time, sensor, image_id,
+  --sensor-field N          cloud_fraction, georef_rmse_m; the last two are
+  --image-field N           optional)
+  --cloud-field N
+  --rmse-field N
+A report (work CRS, images, crossings, uncrossed transects) goes to standard error.
+)";
+
+geo::TransectReadOptions transect_options(Args& args) {
+  geo::TransectReadOptions o;
+  o.layer = args.get("transects-layer");
+  o.id_field = args.get("transect-id-field").value_or(o.id_field);
+  o.azimuth_field = args.get("azimuth-field").value_or(o.azimuth_field);
+  o.length_field = args.get("length-field").value_or(o.length_field);
+  o.crs = args.get("crs");
+  return o;
+}
+
+void report_work_crs(const geo::WorkCrs& crs) {
+  std::cerr << "work CRS: " << crs.name;
+  if (!crs.authority.empty()) std::cerr << " (" << crs.authority << ")";
+  std::cerr << " - " << crs.choice << "\n";
+}
+
+}  // namespace
+
+int run_intersect(const CommandArgs& argv) {
+  Args args(argv, {"help"});
+  if (args.flag("help")) {
+    std::cout << kIntersectHelp;
+    return kExitOk;
+  }
+  const std::string shorelines = args.require("shorelines");
+  const std::string transects_path = args.require("transects");
+  const std::string out_path = args.require("out");
+  geo::TransectReadOptions topt = transect_options(args);
+  geo::IntersectOptions iopt;
+  iopt.layer = args.get("shorelines-layer");
+  iopt.rule = geo::crossing_rule_from_name(args.get("crossing").value_or("most-seaward"));
+  auto& fields = iopt.fields;
+  fields.time = args.get("time-field").value_or(fields.time);
+  fields.sensor = args.get("sensor-field").value_or(fields.sensor);
+  fields.image = args.get("image-field").value_or(fields.image);
+  if (auto v = args.get("cloud-field")) fields.cloud_fraction = *v, fields.cloud_fraction_required = true;
+  if (auto v = args.get("rmse-field")) fields.georef_rmse = *v, fields.georef_rmse_required = true;
+  args.finish();
+
+  const geo::TransectSet transects = geo::read_transects(transects_path, topt);
+  report_work_crs(transects.crs);
+  const geo::IntersectResult result = geo::intersect_shorelines(shorelines, transects, iopt);
+
+  if (out_path == "-") {
+    geo::write_crossing_csv(std::cout, result);
+  } else {
+    std::ofstream out(out_path, std::ios::binary);
+    if (!out) throw InputError(out_path + ": cannot open for writing");
+    geo::write_crossing_csv(out, result);
+    out.close();
+    if (!out) throw InputError(out_path + ": write failed");
+  }
+  const auto& r = result.report;
+  std::cerr << "shorelines: " << r.features << " features, " << r.images << " images (CRS " << r.shoreline_crs
+            << ")\n"
+            << "transects: " << transects.transects.size() << "; rows written: " << r.rows << "\n"
+            << "transect-image pairs with several crossings: " << r.ambiguous_pairs;
+  if (r.left_out_ambiguous) std::cerr << " (" << r.left_out_ambiguous << " left out, --crossing flag-only)";
+  std::cerr << "\ntransect-image pairs not crossed: " << r.uncrossed_pairs << "\n"
+            << "transects crossed by no image: " << r.never_crossed.size();
+  for (std::size_t i = 0; i < r.never_crossed.size() && i < 20; ++i)
+    std::cerr << (i ? ", " : " (") << r.never_crossed[i];
+  if (!r.never_crossed.empty()) std::cerr << (r.never_crossed.size() > 20 ? ", ...)" : ")");
+  std::cerr << "\n";
+  return kExitOk;
+}
+
+constexpr const char* kTransectsHelp = R"(usage: strandline transects --baseline FILE --spacing M --length M --seaward left|right --out FILE [options]
+
+Generates shore-normal transects along a baseline polyline (one or more lines):
+one every --spacing metres of baseline from each line's first vertex, normal to
+the baseline's direction averaged over --smoothing metres, pointing seaward.
+
+  --baseline FILE        baseline lines (any OGR vector format)
+  --baseline-layer NAME  layer of FILE when it has several
+  --spacing M            metres between transects along the baseline
+  --length M             transect length in metres
+  --seaward SIDE         the sea lies left or right walking along the baseline
+  --landward M           start each transect M metres landward of the baseline (0)
+  --smoothing M          window for the baseline direction (default: spacing)
+  --id-prefix TEXT       transect ids TEXT0001, TEXT0002, ... (default T)
+  --crs CRS              work CRS when the baseline is not projected
+  --out FILE             .gpkg (work CRS) or .geojson (WGS 84 lon/lat)
+)";
+
+int run_transects(const CommandArgs& argv) {
+  Args args(argv, {"help"});
+  if (args.flag("help")) {
+    std::cout << kTransectsHelp;
+    return kExitOk;
+  }
+  geo::BaselineOptions o;
+  const std::string baseline = args.require("baseline");
+  const std::string out_path = args.require("out");
+  o.layer = args.get("baseline-layer");
+  o.crs = args.get("crs");
+  args.require("spacing");
+  args.require("length");
+  o.spacing_m = *args.number("spacing");
+  o.length_m = *args.number("length");
+  o.seaward = geo::seaward_side_from_name(args.require("seaward"));
+  o.landward_m = args.number_or("landward", 0.0);
+  o.smoothing_m = args.number_or("smoothing", kUnknown);
+  o.id_prefix = args.get("id-prefix").value_or(o.id_prefix);
+  args.finish();
+  if (!geo::geo_format_for(out_path)) throw UsageError("--out " + out_path + ": use a .gpkg or .geojson file");
+
+  const geo::BaselineTransects made = geo::transects_from_baseline(baseline, o);
+  report_work_crs(made.set.crs);
+  const geo::GeoWriteReport written = geo::write_geo_layers(out_path, made.set, {});
+  std::cerr << "transects written: " << written.transects << " to " << out_path << "\n";
+  if (made.crossing_neighbours)
+    std::cerr << "warning: " << made.crossing_neighbours
+              << " pairs of neighbouring transects cross each other (baseline bends sharply for this length;"
+                 " increase --smoothing or --spacing, or shorten --length)\n";
+  return kExitOk;
+}
+
+}  // namespace strandline::cli
