@@ -3,7 +3,9 @@
 #include <cmath>
 #include <stdexcept>
 
-#include "corrections/spectral/detrend.h"
+#include <numbers>
+
+#include "corrections/core/time_utc.h"
 
 namespace strandline::spectral {
 
@@ -30,7 +32,8 @@ double cross_term(const Rotation& rot, double ac, double as, double bc, double b
 
 }  // namespace
 
-BandBasis::BandBasis(std::span<const double> times, std::span<const double> omegas, std::span<const double> weights)
+BandBasis::BandBasis(std::span<const double> times, std::span<const double> omegas, std::span<const double> weights,
+                     bool seasonal)
     : omegas_(omegas.begin(), omegas.end()), weights_(weights.begin(), weights.end()) {
   if (omegas.size() != weights.size()) throw std::invalid_argument("BandBasis: omegas and weights differ in length");
   const Eigen::Index n = static_cast<Eigen::Index>(times.size()), nf = static_cast<Eigen::Index>(omegas.size());
@@ -39,6 +42,16 @@ BandBasis::BandBasis(std::span<const double> times, std::span<const double> omeg
   if (n > 0) mean /= static_cast<double>(n);
   t_.resize(n);
   for (Eigen::Index j = 0; j < n; ++j) t_[j] = times[static_cast<std::size_t>(j)] - mean;
+  trend_.resize(n, seasonal ? 6 : 2);
+  trend_.col(0).setOnes();
+  trend_.col(1) = t_;
+  if (seasonal) {
+    const double annual = 2 * std::numbers::pi / kDaysPerJulianYear;
+    trend_.col(2) = (annual * t_.array()).cos().matrix();
+    trend_.col(3) = (annual * t_.array()).sin().matrix();
+    trend_.col(4) = (2 * annual * t_.array()).cos().matrix();
+    trend_.col(5) = (2 * annual * t_.array()).sin().matrix();
+  }
   cos_.resize(n, nf);
   sin_.resize(n, nf);
   for (Eigen::Index k = 0; k < nf; ++k)
@@ -65,10 +78,8 @@ BandBasis::BandBasis(std::span<const double> times, std::span<const double> omeg
 
 double BandBasis::energy(std::span<const double> y) const {
   if (y.size() != images()) throw std::invalid_argument("BandBasis::energy: wrong series length");
-  std::vector<double> t(images());
-  for (std::size_t j = 0; j < t.size(); ++j) t[j] = t_[static_cast<Eigen::Index>(j)];
-  const std::vector<double> r = detrend_linear(t, y);
-  const Eigen::Map<const Eigen::VectorXd> rv(r.data(), static_cast<Eigen::Index>(r.size()));
+  const Eigen::Map<const Eigen::VectorXd> yv(y.data(), static_cast<Eigen::Index>(y.size()));
+  const Eigen::VectorXd rv = yv - trend_ * trend_.colPivHouseholderQr().solve(yv);
   const Eigen::VectorXd yc = cos_.transpose() * rv, ys = sin_.transpose() * rv;
   double e = 0;
   for (std::size_t k = 0; k < frequencies(); ++k) {
@@ -102,50 +113,61 @@ std::vector<Quadratic> BandBasis::quadratics(std::span<const double> x, std::spa
   if (x.size() != images() || w.size() != images() || multiplicities.cols() != n)
     throw std::invalid_argument("BandBasis::quadratics: sizes differ from the basis");
   const Eigen::Map<const Eigen::ArrayXd> xv(x.data(), n), wv(w.data(), n);
-  const Eigen::ArrayXd t = t_.array();
+  const Eigen::Index p = trend_.cols();
 
-  // Line-fit sums (1, t, t^2, x, t x, w, t w) and, per frequency, the ten sums
-  // that give the detrended, rotated projections of x and w.
-  Eigen::MatrixXd plain(n, 7);
-  plain.col(0).setOnes();
-  plain.col(1) = t.matrix();
-  plain.col(2) = t.square().matrix();
-  plain.col(3) = xv.matrix();
-  plain.col(4) = (t * xv).matrix();
-  plain.col(5) = wv.matrix();
-  plain.col(6) = (t * wv).matrix();
-  Eigen::MatrixXd table(n, 10 * nf);
-  table.middleCols(0 * nf, nf) = cos_;
-  table.middleCols(1 * nf, nf) = sin_;
-  table.middleCols(2 * nf, nf) = cos_.array().colwise() * t;
-  table.middleCols(3 * nf, nf) = sin_.array().colwise() * t;
-  table.middleCols(4 * nf, nf) = cos_.array().colwise() * xv;
-  table.middleCols(5 * nf, nf) = sin_.array().colwise() * xv;
-  table.middleCols(6 * nf, nf) = cos_.array().colwise() * wv;
-  table.middleCols(7 * nf, nf) = sin_.array().colwise() * wv;
-  table.middleCols(8 * nf, nf) = cos_.array().square() - sin_.array().square();
-  table.middleCols(9 * nf, nf) = 2 * cos_.array() * sin_.array();
-  const Eigen::MatrixXd line_sums = multiplicities * plain;
+  // Weighted sums, all linear in the multiplicities, so one matrix product gives
+  // them for every row: the normal equations of the trend fit (G'MG, G'Mx, G'Mw)
+  // and, per frequency, the sums that give the detrended, rotated projections.
+  const Eigen::Index n_gram = p * (p + 1) / 2;
+  Eigen::MatrixXd plain(n, n_gram + 2 * p);
+  Eigen::Index col = 0;
+  for (Eigen::Index a = 0; a < p; ++a)
+    for (Eigen::Index b = a; b < p; ++b) plain.col(col++) = trend_.col(a).cwiseProduct(trend_.col(b));
+  for (Eigen::Index a = 0; a < p; ++a) plain.col(col++) = (trend_.col(a).array() * xv).matrix();
+  for (Eigen::Index a = 0; a < p; ++a) plain.col(col++) = (trend_.col(a).array() * wv).matrix();
+  // Blocks of nf columns: G_a cos, G_a sin (a < p), x cos, x sin, w cos, w sin, cos 2wt, sin 2wt.
+  const Eigen::Index blocks = 2 * p + 6;
+  Eigen::MatrixXd table(n, blocks * nf);
+  for (Eigen::Index a = 0; a < p; ++a) {
+    table.middleCols((2 * a) * nf, nf) = cos_.array().colwise() * trend_.col(a).array();
+    table.middleCols((2 * a + 1) * nf, nf) = sin_.array().colwise() * trend_.col(a).array();
+  }
+  const Eigen::Index base = 2 * p * nf;
+  table.middleCols(base + 0 * nf, nf) = cos_.array().colwise() * xv;
+  table.middleCols(base + 1 * nf, nf) = sin_.array().colwise() * xv;
+  table.middleCols(base + 2 * nf, nf) = cos_.array().colwise() * wv;
+  table.middleCols(base + 3 * nf, nf) = sin_.array().colwise() * wv;
+  table.middleCols(base + 4 * nf, nf) = cos_.array().square() - sin_.array().square();
+  table.middleCols(base + 5 * nf, nf) = 2 * cos_.array() * sin_.array();
+  const Eigen::MatrixXd plain_sums = multiplicities * plain;
   const Eigen::MatrixXd sums = multiplicities * table;
 
   std::vector<Quadratic> out(static_cast<std::size_t>(multiplicities.rows()));
+  Eigen::MatrixXd gram(p, p);
+  Eigen::VectorXd gx(p), gw(p);
   for (Eigen::Index r = 0; r < multiplicities.rows(); ++r) {
-    const double s0 = line_sums(r, 0), st = line_sums(r, 1), stt = line_sums(r, 2);
-    const double det = s0 * stt - st * st;
-    auto line = [&](double sy, double sty) {
-      const double b = det > 0 ? (s0 * sty - st * sy) / det : 0.0;
-      const double a = s0 > 0 ? (sy - b * st) / s0 : 0.0;
-      return std::pair{a, b};
-    };
-    const auto [ax, bx] = line(line_sums(r, 3), line_sums(r, 4));
-    const auto [aw, bw] = line(line_sums(r, 5), line_sums(r, 6));
+    col = 0;
+    for (Eigen::Index a = 0; a < p; ++a)
+      for (Eigen::Index b = a; b < p; ++b) gram(a, b) = gram(b, a) = plain_sums(r, col++);
+    for (Eigen::Index a = 0; a < p; ++a) gx[a] = plain_sums(r, col++);
+    for (Eigen::Index a = 0; a < p; ++a) gw[a] = plain_sums(r, col++);
+    // Rank-revealing solve: a resample may not determine every regressor.
+    const Eigen::CompleteOrthogonalDecomposition<Eigen::MatrixXd> solver(gram);
+    const Eigen::VectorXd cx = solver.solve(gx), cw = solver.solve(gw);
+    const double count = gram(0, 0);
     Quadratic q;
     for (Eigen::Index k = 0; k < nf; ++k) {
-      auto at = [&](int block) { return sums(r, block * nf + k); };
-      const double c = at(0), s = at(1), tc = at(2), ts = at(3);
-      const double xc = at(4) - ax * c - bx * tc, xs = at(5) - ax * s - bx * ts;
-      const double wc = at(6) - aw * c - bw * tc, ws = at(7) - aw * s - bw * ts;
-      const Rotation rot = rotation_from(s0, at(8), at(9));
+      auto at = [&](Eigen::Index block) { return sums(r, block * nf + k); };
+      double xc = sums(r, base + k), xs = sums(r, base + nf + k);
+      double wc = sums(r, base + 2 * nf + k), ws = sums(r, base + 3 * nf + k);
+      for (Eigen::Index a = 0; a < p; ++a) {
+        const double gc = at(2 * a), gs = at(2 * a + 1);
+        xc -= cx[a] * gc;
+        xs -= cx[a] * gs;
+        wc -= cw[a] * gc;
+        ws -= cw[a] * gs;
+      }
+      const Rotation rot = rotation_from(count, sums(r, base + 4 * nf + k), sums(r, base + 5 * nf + k));
       const double weight = weights_[static_cast<std::size_t>(k)];
       q.a += weight * cross_term(rot, wc, ws, wc, ws);
       q.b += weight * cross_term(rot, xc, xs, wc, ws);

@@ -18,4 +18,8 @@ LineFit fit_line(std::span<const double> t, std::span<const double> y);
 
 std::vector<double> detrend_linear(std::span<const double> t, std::span<const double> y);
 
+// Residual of a least-squares fit of a line plus, when `seasonal`, annual and
+// semi-annual sinusoids (t in days). Also linear in y.
+std::vector<double> detrend_days(std::span<const double> t_days, std::span<const double> y, bool seasonal);
+
 }  // namespace strandline::spectral

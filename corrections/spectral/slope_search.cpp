@@ -50,8 +50,8 @@ SlopeSearcher::SlopeSearcher(const SpectrumGrid& grid)
     : grid_(grid), frequencies_cpd_(grid.frequencies_cpd()), fast_(angular_grid(grid), grid.fast) {}
 
 std::vector<double> SlopeSearcher::water_spectrum(std::span<const double> times_days,
-                                                  std::span<const double> water_m) const {
-  const std::vector<double> detrended = detrend_linear(times_days, water_m);
+                                                  std::span<const double> water_m, bool remove_seasonal) const {
+  const std::vector<double> detrended = detrend_days(times_days, water_m, remove_seasonal);
   return fast_.power(times_days, detrended);
 }
 
@@ -128,6 +128,7 @@ SlopeEstimate SlopeSearcher::run(std::span<const double> times_s, std::span<cons
   check_options(options);
   SlopeEstimate est;
   est.method = linear_x ? "closed_form" : "grid_refine";
+  est.remove_seasonal = options.remove_seasonal;
   est.tan_beta = est.sigma = est.ci95_low = est.ci95_high = est.excursion_m = kNaN;
   const std::size_t n = times_s.size();
   est.images_given = n;
@@ -160,15 +161,15 @@ SlopeEstimate SlopeSearcher::run(std::span<const double> times_s, std::span<cons
   }
 
   // (1) Tidal band.
-  const std::vector<double> spectrum = water_spectrum(t, w);
-  est.band = find_tidal_band(frequencies_cpd_, spectrum, t.back() - t.front(), options.band);
+  const std::vector<double> spectrum = water_spectrum(t, w, options.remove_seasonal);
+  est.band = find_tidal_band(frequencies_cpd_, spectrum, t, options.band);
   if (!est.band.found) {
     est.reasons.push_back("no_clear_tidal_peak");
     return est;
   }
   std::vector<double> omegas;
   for (double f : est.band.frequencies_cpd) omegas.push_back(2 * std::numbers::pi * f);
-  const BandBasis basis(t, omegas, est.band.weights_cpd);
+  const BandBasis basis(t, omegas, est.band.weights_cpd, options.remove_seasonal);
 
   // (2)-(4) Provisional slope, residual screen, final slope.
   const double s_lo = 1 / options.tan_beta_max, s_hi = 1 / options.tan_beta_min;
@@ -199,9 +200,11 @@ SlopeEstimate SlopeSearcher::run(std::span<const double> times_s, std::span<cons
   std::vector<char> keep(n, 1);
   std::vector<double> y(n);
   for (int pass = 0; pass < options.screen_passes; ++pass) {
+    // Residuals of the provisional correction about its trend (and seasonal
+    // cycle), so the running median does not have to follow the seasons.
     corrected_sorted(1 / sol.s, y);
     std::vector<char> fresh(n, 1);
-    screen_residuals(y, fresh, options.screen);
+    screen_residuals(detrend_days(t, y, options.remove_seasonal), fresh, options.screen);
     const bool same = fresh == keep;
     keep = fresh;
     for (std::size_t i = 0; i < n; ++i) multiplicity[i] = keep[i] ? 1.0 : 0.0;
@@ -300,6 +303,7 @@ nlohmann::json SlopeEstimate::details() const {
     curve_energy.push_back(p.energy);
   }
   nlohmann::json j = {{"method", method},
+                      {"detrend", remove_seasonal ? "line+annual+semiannual" : "line"},
                       {"verdict", identifiable ? "identifiable" : "not_identifiable"},
                       {"reasons", reasons},
                       {"tan_beta", tan_beta},

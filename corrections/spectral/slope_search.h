@@ -51,6 +51,9 @@ struct SlopeSearchOptions {
   double tan_beta_max = 0.2;
   TidalBandOptions band;
   ResidualScreenOptions screen;
+  // Remove annual and semi-annual sinusoids with the line (band_energy.h). The
+  // published method removes the line only.
+  bool remove_seasonal = true;
   int screen_passes = 2;
   std::size_t min_images = 40;
   double min_excursion_m = 10.0;
@@ -88,6 +91,7 @@ struct SlopeEstimate {
   Quadratic energy;                  // E(s), s = 1/tan(beta) (closed-form path)
   std::vector<EnergyPoint> curve;    // over the search range
   std::string method;                // "closed_form" or "grid_refine"
+  bool remove_seasonal = false;      // the detrending used
 
   nlohmann::json details() const;    // the slope_details JSON
 };
@@ -104,7 +108,8 @@ class SlopeSearcher {
                          const CorrectedSeriesFn& corrected, const SlopeSearchOptions& options) const;
 
   // Spectrum of detrended w at the image times (days), on the grid.
-  std::vector<double> water_spectrum(std::span<const double> times_days, std::span<const double> water_m) const;
+  std::vector<double> water_spectrum(std::span<const double> times_days, std::span<const double> water_m,
+                                     bool remove_seasonal) const;
   const SpectrumGrid& grid() const { return grid_; }
 
  private:
