@@ -57,9 +57,13 @@ class BandBasis {
   Eigen::MatrixXd trend_;  // images x regressors of the detrending fit
   Eigen::MatrixXd cos_;  // images x frequencies: cos w t
   Eigen::MatrixXd sin_;
+  Eigen::MatrixXd cos2_;  // cos 2wt, sin 2wt
+  Eigen::MatrixXd sin2_;
   std::vector<double> omegas_, weights_;
   // For energy(): rotation and normalisers with every image once.
   std::vector<double> cos_tau_, sin_tau_, cc_, ss_;
+
+  Quadratic assemble(const double* plain_sums, const double* sums, std::ptrdiff_t stride) const;
 };
 
 }  // namespace strandline::spectral

@@ -40,7 +40,7 @@ struct UniformAngularGrid {
 };
 
 struct FastLombScargleOptions {
-  int mesh_oversampling = 8;    // mu: mesh points = mu * 2 * count, rounded up to 2^a 3^b 5^c
+  int mesh_oversampling = 8;    // mu: mesh points >= mu * 2 * count, rounded up to a power of two
   int extirpolation_order = 8;  // p: Lagrange points per sample
 };
 
@@ -65,7 +65,7 @@ class FastLombScargle {
   void* plan_ = nullptr;  // fftw_plan (kept out of the header)
 };
 
-// Smallest n >= minimum of the form 2^a 3^b 5^c (fast FFT sizes).
+// Smallest power of two >= minimum (FFTW_ESTIMATE plans these well).
 std::size_t fft_friendly_size(std::size_t minimum);
 
 }  // namespace strandline::spectral
