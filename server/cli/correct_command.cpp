@@ -13,6 +13,7 @@
 #include "qc/summary.h"
 #include "server/cli/batch_inputs.h"
 #include "server/cli/commands.h"
+#include "server/cli/wave_inputs.h"
 #include "server/io/atomic_file.h"
 #include "server/io/cleaned_rows.h"
 
@@ -41,7 +42,7 @@ const char* kHelp =
 int run_correct(const CommandArgs& argv) {
   Args args(argv, {"skip-invalid", "help", "quiet"});
   if (args.flag("help")) {
-    std::cout << kHelp << batch_options_help()
+    std::cout << kHelp << batch_options_help() << wave_options_help()
               << "  --out FILE                 cleaned rows (CSV)\n"
                  "  --summary FILE             per-transect summary JSON with provenance\n"
                  "  --skip-invalid             write bad rows to --rejected and go on (default: stop at the first)\n"
@@ -59,6 +60,7 @@ int run_correct(const CommandArgs& argv) {
   if (skip_invalid && !rejected_path) rejected_path = default_rejected_path(out_path);
 
   BatchInputs batch = load_batch_inputs(args, {skip_invalid});
+  load_wave_inputs(args, batch);
   args.finish();
   check_slope_coverage(batch);
 

@@ -64,8 +64,8 @@ def main():
     worst = 0.0
     worst_printed = 0.0
     regimes = {True: 0, False: 0}
-    grid = itertools.product([0.3, 1.0, 2.0, 4.0, 6.5], [5.0, 8.0, 12.0, 16.0],
-                             [0.01, 0.03, 0.05, 0.1, 0.2], [None, 8.0, 20.0, 60.0])
+    grid = itertools.product([0.3, 1.0, 2.5, 6.5], [5.0, 10.0, 16.0],
+                             [0.01, 0.03, 0.06, 0.15], [None, 8.0, 30.0])
     n = 0
     for hs, tp, slope, depth in grid:
         cmd = [exe, "runup", "--hs", repr(hs), "--tp", repr(tp), "--slope", repr(slope)]

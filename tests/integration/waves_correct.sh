@@ -1,0 +1,80 @@
+#!/usr/bin/env bash
+# `strandline correct --waves ... --wave-correction none|setup|runup` on the
+# invented demo site, whose waterlines contain the Stockdon setup: with `setup`
+# the true positions come back (mean residual ~0), with `none` the bias is the
+# setup's horizontal term -0.35 sqrt(H0 L0), with `runup` the swash part is
+# over-corrected. Truth comes from the generator's truth_points.csv.
+# Args: BUILD_DIR SOURCE_DIR
+set -euo pipefail
+build=$1
+work=$(mktemp -d)
+trap 'rm -rf "$work"' EXIT
+
+"$build/demo_data/strandline-demo-gen" "$work/site" --transects 4 --seed 11 > /dev/null
+cd "$work/site"
+for mode in none setup runup; do
+  "$build/server/strandline" correct --observations observations.csv --water-levels water_levels.csv \
+    --transect-params transect_params.csv --waves waves.csv --wave-correction "$mode" \
+    --out "cleaned_$mode.csv" --summary "summary_$mode.json" --skip-invalid --quiet
+done
+
+# Usage errors name the option.
+if "$build/server/strandline" correct --observations observations.csv --water-levels water_levels.csv \
+     --transect-params transect_params.csv --wave-correction setup --out x.csv --quiet 2> err.txt; then
+  echo "FAIL: --wave-correction without --waves accepted"; exit 1
+fi
+grep -q -- "--wave-correction needs --waves" err.txt || { echo "FAIL: message"; cat err.txt; exit 1; }
+printf 'time,hs_m,tp_s,dir_deg\n2000-01-01T00:00:00Z,1,x,200\n' > bad_waves.csv
+if "$build/server/strandline" correct --observations observations.csv --water-levels water_levels.csv \
+     --transect-params transect_params.csv --waves bad_waves.csv --out x.csv --quiet 2> err.txt; then
+  echo "FAIL: bad waves.csv accepted"; exit 1
+fi
+grep -q 'bad_waves.csv:2: tp_s "x": not a number' err.txt || { echo "FAIL: message"; cat err.txt; exit 1; }
+
+/usr/bin/python3 - <<'PY'
+import csv, json, math, sys
+truth = {(r["transect_id"], r["image_id"]): r for r in csv.DictReader(open("truth_points.csv"))}
+slopes = {r["transect_id"]: float(r["slope"]) for r in csv.DictReader(open("truth_transects.csv"))}
+G = 9.80665
+failures = 0
+def rows(mode):
+    return {(r["transect_id"], r["image_id"]): r for r in csv.DictReader(open(f"cleaned_{mode}.csv"))}
+data = {m: rows(m) for m in ("none", "setup", "runup")}
+resid = {m: [] for m in data}
+expected_none, expected_runup, setup_err = [], [], 0.0
+for key, r in data["setup"].items():
+    t = truth[key]
+    if r["accepted"] != "1" or t["outlier_kind"] != "none" or t["storm_response"] != "0":
+        continue
+    beta = slopes[key[0]]
+    true_x = float(t["true_chainage_m"])
+    setup_true = float(t["setup_m"])
+    setup_err = max(setup_err, abs(float(r["setup_m"]) - setup_true) / max(setup_true, 0.1))
+    for m in data:
+        resid[m].append(float(data[m][key]["chainage_m"]) - true_x)
+    expected_none.append(-setup_true / beta)
+    expected_runup.append((float(r["runup_m"]) - float(r["setup_m"])) / beta)
+    if float(data["none"][key]["wave_level_m"]) != 0.0 or r["wave_level_m"] != r["setup_m"] \
+            or data["runup"][key]["wave_level_m"] != r["runup_m"]:
+        failures += 1
+mean = lambda v: sum(v) / len(v)
+n = len(resid["setup"])
+print(f"{n} accepted clean points on 4 transects")
+print(f"  max relative |setup_m - generator's setup| {100 * setup_err:.2f}% (Hs, Tp rounded in waves.csv)")
+for m, want in (("setup", 0.0), ("none", mean(expected_none)), ("runup", mean(expected_runup))):
+    got = mean(resid[m])
+    print(f"  {m:6s} mean residual vs truth {got:+7.2f} m (expected {want:+7.2f} m)")
+    if abs(got - want) > 1.5:
+        failures += 1
+        print("  MISMATCH")
+if setup_err > 0.02 or n < 1000:
+    failures += 1
+for m in data:
+    s = json.load(open(f"summary_{m}.json"))
+    text = json.dumps(s)
+    if f'"wave_correction": "{m}"' not in text:
+        failures += 1
+        print(f"  MISMATCH: summary_{m}.json does not record wave_correction {m}")
+sys.exit(1 if failures else 0)
+PY
+echo OK
