@@ -99,7 +99,8 @@ Site generate_site(const SiteParams& params) {
 
   // ---- transects along a gently curved bay: an arc whose seaward normals point to its centre
   const int n = params.n_transects;
-  const double radius_m = 3000.0;
+  // A bay of 3 km radius; longer coasts get a larger radius so the arc stays under 0.7 rad.
+  const double radius_m = std::max(3000.0, n * params.spacing_m / 0.7);
   const double centre_x = 431000.0, centre_y = 5902000.0;  // work CRS metres (demo: EPSG:32631)
   std::vector<double> slopes = params.slopes;
   if (slopes.empty()) {
