@@ -21,5 +21,7 @@ int run_correct(const CommandArgs& args);
 int run_intersect(const CommandArgs& args);
 int run_transects(const CommandArgs& args);
 int run_runup(const CommandArgs& args);
+int run_tide_predict(const CommandArgs& args);
+int run_tide_fit(const CommandArgs& args);
 
 }  // namespace strandline::cli

@@ -19,6 +19,8 @@ const Command kCommands[] = {
     {"transects", "generate shore-normal transects along a baseline polyline", strandline::cli::run_transects},
     {"runup", "wave calculator: H0, L0, Iribarren, Stockdon (2006) setup, swash and R2% as JSON",
      strandline::cli::run_runup},
+    {"tide-predict", "astronomical tide from a constituent file as time,level_m CSV", strandline::cli::run_tide_predict},
+    {"tide-fit", "harmonic analysis of a gauge record into a constituent file", strandline::cli::run_tide_fit},
 };
 
 void print_usage(std::ostream& out) {
