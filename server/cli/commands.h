@@ -18,6 +18,8 @@ struct Command {
 };
 
 int run_correct(const CommandArgs& args);
+int run_serve(const CommandArgs& args);
+int run_keys(const CommandArgs& args);
 int run_intersect(const CommandArgs& args);
 int run_transects(const CommandArgs& args);
 int run_runup(const CommandArgs& args);

@@ -21,6 +21,9 @@ const Command kCommands[] = {
      strandline::cli::run_runup},
     {"tide-predict", "astronomical tide from a constituent file as time,level_m CSV", strandline::cli::run_tide_predict},
     {"tide-fit", "harmonic analysis of a gauge record into a constituent file", strandline::cli::run_tide_fit},
+    {"serve", "HTTP service: uploads, background runs, series (see --help; --demo for a demo site)",
+     strandline::cli::run_serve},
+    {"keys", "API keys of the service: add, list, revoke", strandline::cli::run_keys},
 };
 
 void print_usage(std::ostream& out) {

@@ -1,0 +1,155 @@
+// `strandline serve` (the HTTP service) and `strandline keys` (its API keys).
+#include <unistd.h>
+
+#include <csignal>
+#include <cstdlib>
+#include <filesystem>
+#include <iostream>
+#include <thread>
+
+#include "corrections/core/errors.h"
+#include "server/cli/args.h"
+#include "server/cli/commands.h"
+#include "server/http/demo_site.h"
+#include "server/http/service.h"
+#include "server/store/api_keys.h"
+
+namespace strandline::cli {
+
+namespace {
+
+const char* kServeHelp =
+    "usage: strandline serve --db FILE [--port 8600] [options]\n"
+    "       strandline serve --demo [--port 8600]\n"
+    "  --db FILE                  SQLite database (created and migrated when new)\n"
+    "  --demo                     temporary database with the invented demo site and one finished run\n"
+    "  --host ADDRESS             listen address (default 127.0.0.1)\n"
+    "  --port N                   TCP port (default 8600; 0 = any free port, printed)\n"
+    "  --static DIR               serve the dashboard's static files under /\n"
+    "  --read-key-required        reads need an API key too (writes always do)\n"
+    "  --threads N                handler threads = connections served at once (default 96)\n"
+    "  --max-concurrent N         requests in progress before 503 + Retry-After (default 80)\n"
+    "  --max-body-mb N            request body limit in MiB (default 512)\n"
+    "  --run-workers N            background run threads (default 1)\n"
+    "Keys: `strandline keys add --db FILE --name NAME --role write`.\n";
+
+std::sig_atomic_t volatile g_stop = 0;
+void on_signal(int) { g_stop = 1; }
+
+int positive_int(Args& args, const std::string& name, int fallback, int max) {
+  const double v = args.number_or(name, fallback);
+  if (v < 0 || v > max || v != static_cast<int>(v))
+    throw UsageError("option --" + name + ": expected an integer from 0 to " + std::to_string(max));
+  return static_cast<int>(v);
+}
+
+}  // namespace
+
+int run_serve(const CommandArgs& argv) {
+  Args args(argv, {"demo", "read-key-required", "help"});
+  if (args.flag("help")) {
+    std::cout << kServeHelp;
+    return kExitOk;
+  }
+  const bool demo = args.flag("demo");
+  http::ServiceOptions options;
+  options.read_key_required = args.flag("read-key-required");
+  options.static_dir = args.get("static").value_or("");
+  options.http_threads = static_cast<unsigned>(positive_int(args, "threads", 96, 4096));
+  options.max_concurrent_requests = static_cast<std::size_t>(positive_int(args, "max-concurrent", 80, 100000));
+  options.max_body_bytes = static_cast<std::size_t>(positive_int(args, "max-body-mb", 512, 65536)) << 20;
+  options.run_workers = static_cast<unsigned>(std::max(1, positive_int(args, "run-workers", 1, 64)));
+  if (options.max_concurrent_requests >= options.http_threads)
+    throw UsageError("--max-concurrent must be below --threads so that overload answers always have a thread");
+  const std::string host = args.get("host").value_or("127.0.0.1");
+  const int port = positive_int(args, "port", 8600, 65535);
+  std::string db_path;
+  std::filesystem::path demo_dir;
+  if (demo) {
+    if (args.has("db")) throw UsageError("--demo uses a temporary database; drop --db");
+    char dir[] = "/tmp/strandline-demo-XXXXXX";
+    if (!mkdtemp(dir)) throw std::runtime_error("cannot create a temporary folder");
+    demo_dir = dir;
+    db_path = (demo_dir / "demo.db").string();
+  } else {
+    db_path = args.require("db");
+  }
+  args.finish();
+
+  auto store = store::open_sqlite_store(db_path);
+  http::Service service(*store, options);
+  if (demo) {
+    std::cerr << "loading the demo site into " << db_path << " ...\n";
+    const auto run = http::load_demo_site(*store, service.runs());
+    std::cerr << "demo run " << run << ": " << store->run(run)->state << "\n";
+    const auto key = store::generate_api_key("demo-writer", "write");
+    store->add_key(key.record);
+    std::cout << "demo write key: " << key.secret << "\n";
+  }
+  const int bound = service.bind(host, port);
+  if (bound < 0) throw UsageError("cannot listen on " + host + ":" + std::to_string(port) + " (in use?)");
+  std::signal(SIGINT, on_signal);
+  std::signal(SIGTERM, on_signal);
+  service.start();
+  std::cout << "strandline serving http://" << host << ":" << bound << "/  (database " << db_path << ")" << std::endl;
+  if (demo)
+    std::cout << "  try: curl http://" << host << ":" << bound << "/v1/sites/demo/summary" << std::endl;
+  while (!g_stop) std::this_thread::sleep_for(std::chrono::milliseconds(100));
+  std::cerr << "stopping\n";
+  service.stop();
+  if (demo) {
+    store.reset();
+    std::error_code ignored;
+    std::filesystem::remove_all(demo_dir, ignored);
+  }
+  return kExitOk;
+}
+
+int run_keys(const CommandArgs& argv) {
+  if (argv.empty() || argv[0] == "--help") {
+    std::cout << "usage: strandline keys add --db FILE --name NAME --role read|write\n"
+                 "       strandline keys list --db FILE\n"
+                 "       strandline keys revoke --db FILE --name NAME\n"
+                 "The key is printed once by `add`; only its SHA-256 is stored.\n";
+    return argv.empty() ? kExitBadInput : kExitOk;
+  }
+  const std::string action = argv[0];
+  Args args(CommandArgs(argv.begin() + 1, argv.end()), {});
+  const std::string db = args.require("db");
+  if (action == "add") {
+    const std::string name = args.require("name");
+    const std::string role = args.get("role").value_or("write");
+    args.finish();
+    if (role != "read" && role != "write") throw UsageError("option --role: expected read or write");
+    auto store = store::open_sqlite_store(db);
+    const auto key = store::generate_api_key(name, role);
+    try {
+      store->add_key(key.record);
+    } catch (const store::AlreadyExists& e) {
+      throw UsageError(e.what());
+    }
+    std::cout << key.secret << "\n";
+    std::cerr << "key \"" << name << "\" (" << role << ") added; it is shown only now\n";
+    return kExitOk;
+  }
+  if (action == "list") {
+    args.finish();
+    auto store = store::open_sqlite_store(db);
+    std::cout << "name,role,prefix,created_at,revoked_at\n";
+    for (const auto& k : store->keys())
+      std::cout << k.name << "," << k.role << "," << k.prefix << "," << k.created_at << ","
+                << k.revoked_at.value_or("") << "\n";
+    return kExitOk;
+  }
+  if (action == "revoke") {
+    const std::string name = args.require("name");
+    args.finish();
+    auto store = store::open_sqlite_store(db);
+    if (!store->revoke_key(name)) throw UsageError("no active key named \"" + name + "\"");
+    std::cerr << "key \"" << name << "\" revoked\n";
+    return kExitOk;
+  }
+  throw UsageError("unknown action \"" + action + "\" (add, list, revoke)");
+}
+
+}  // namespace strandline::cli

@@ -1,0 +1,242 @@
+#include "server/http/openapi.h"
+
+#include <string>
+#include <vector>
+
+#include "server/http/problem.h"
+
+namespace strandline::http {
+
+namespace {
+
+using nlohmann::json;
+
+json ref(const std::string& name) { return {{"$ref", "#/components/schemas/" + name}}; }
+
+json problem_response(const std::string& description) {
+  return {{"description", description}, {"content", {{kProblemContentType, {{"schema", ref("Problem")}}}}}};
+}
+
+json json_response(const std::string& description, const std::string& schema) {
+  return {{"description", description}, {"content", {{"application/json", {{"schema", ref(schema)}}}}}};
+}
+
+json path_param(const std::string& name, const std::string& description) {
+  return {{"name", name}, {"in", "path"}, {"required", true}, {"description", description}, {"schema", {{"type", "string"}}}};
+}
+
+json query_param(const std::string& name, const std::string& description, json schema = {{"type", "string"}}) {
+  return {{"name", name}, {"in", "query"}, {"required", false}, {"description", description}, {"schema", schema}};
+}
+
+json errors(std::initializer_list<int> codes) {
+  json r = json::object();
+  for (int code : codes) {
+    static const std::map<int, std::string> text = {
+        {304, "Not modified (If-None-Match matched the ETag)"},
+        {400, "Bad request: malformed JSON or query parameter"},
+        {401, "Missing or unknown API key"},
+        {403, "Read-only key used for a write"},
+        {404, "Unknown site, transect, upload or run"},
+        {409, "Conflict with stored data; nothing stored"},
+        {413, "Body larger than the configured limit"},
+        {415, "Unsupported Content-Type"},
+        {422, "Schema violation or invalid rows (every bad row listed); nothing stored"},
+        {503, "Over the concurrent-request limit or run queue full; see Retry-After"}};
+    r[std::to_string(code)] = code == 304 ? json{{"description", text.at(code)}} : problem_response(text.at(code));
+  }
+  return r;
+}
+
+json merge(json a, const json& b) {
+  for (auto it = b.begin(); it != b.end(); ++it) a[it.key()] = it.value();
+  return a;
+}
+
+json upload_body(const std::string& schema) {
+  return {{"required", true},
+          {"content",
+           {{"text/csv", {{"schema", {{"type", "string"}}}}},
+            {"application/json", {{"schema", ref(schema)}}}}}};
+}
+
+json upload_operation(const std::string& summary, const std::string& schema) {
+  return {{"summary", summary},
+          {"security", json::array({{{"bearer", json::array()}}})},
+          {"parameters", json::array({path_param("site", "site id"),
+                                      query_param("on_invalid", "reject (default): any bad row stores nothing; skip: store the valid rows",
+                                                  {{"type", "string"}, {"enum", {"reject", "skip"}}})})},
+          {"requestBody", upload_body(schema)},
+          {"responses", merge({{"201", json_response("Stored (or reported as duplicates)", "UploadReport")}},
+                              errors({400, 401, 403, 404, 409, 413, 415, 422, 503}))}};
+}
+
+json rows_schema(const std::string& key, json properties, json required) {
+  json row = {{"type", "object"}, {"properties", properties}, {"required", required}, {"additionalProperties", false}};
+  return {{"oneOf", json::array({{{"type", "array"}, {"items", row}},
+                                 {{"type", "object"},
+                                  {"properties", {{key, {{"type", "array"}, {"items", row}}}}},
+                                  {"required", {key}}}})}};
+}
+
+json build() {
+  const json str = {{"type", "string"}};
+  const json num = {{"type", "number"}};
+  const json num_or_null = {{"type", "number"}, {"nullable", true}};
+  const json integer = {{"type", "integer"}};
+  const json read_security = json::array({json::object(), {{"bearer", json::array()}}});
+  const json write_security = json::array({{{"bearer", json::array()}}});
+  const json site = path_param("site", "site id");
+  const json paging = json::array({query_param("limit", "page size", integer), query_param("cursor", "next_cursor of the previous page")});
+
+  json paths;
+  paths["/healthz"]["get"] = {{"summary", "Liveness and store check"}, {"security", json::array({json::object()})},
+                              {"responses", {{"200", json_response("Healthy", "Health")}, {"503", problem_response("Store unavailable")}}}};
+  paths["/metrics"]["get"] = {{"summary", "Prometheus text exposition (requests, latencies, rows stored, runs)"},
+                              {"security", json::array({json::object()})},
+                              {"responses", {{"200", {{"description", "Metrics"}, {"content", {{"text/plain", {{"schema", str}}}}}}}}}};
+  paths["/v1/openapi.json"]["get"] = {{"summary", "This document"}, {"security", json::array({json::object()})},
+                                      {"responses", {{"200", {{"description", "OpenAPI 3.0 document"}}}}}};
+  paths["/v1/sites"]["post"] = {{"summary", "Create a site"}, {"security", write_security},
+                                {"requestBody", {{"required", true}, {"content", {{"application/json", {{"schema", ref("SiteCreate")}}}}}}},
+                                {"responses", merge({{"201", json_response("Created", "Site")}}, errors({400, 401, 403, 409, 415, 422, 503}))}};
+  paths["/v1/sites"]["get"] = {{"summary", "List sites (paged by id)"}, {"security", read_security}, {"parameters", paging},
+                               {"responses", merge({{"200", json_response("A page of sites", "SitePage")}}, errors({400, 401, 503}))}};
+  paths["/v1/sites/{site}"]["get"] = {{"summary", "One site"}, {"security", read_security}, {"parameters", json::array({site})},
+                                      {"responses", merge({{"200", json_response("The site", "Site")}}, errors({304, 401, 404, 503}))}};
+  paths["/v1/sites/{site}/transects"]["put"] = {
+      {"summary", "Replace the transects: GeoJSON FeatureCollection of lines (origin first) or origin points with azimuth_deg and length_m"},
+      {"security", write_security}, {"parameters", json::array({site})},
+      {"requestBody", {{"required", true}, {"content", {{"application/json", {{"schema", ref("FeatureCollection")}}}}}}},
+      {"responses", merge({{"200", json_response("Transects stored (in the site CRS)", "FeatureCollection")}},
+                          errors({400, 401, 403, 404, 413, 415, 422, 503}))}};
+  paths["/v1/sites/{site}/transects"]["get"] = {{"summary", "The transects of a site"}, {"security", read_security},
+                                                {"parameters", json::array({site})},
+                                                {"responses", merge({{"200", json_response("Transects", "FeatureCollection")}}, errors({304, 401, 404, 503}))}};
+  paths["/v1/sites/{site}/observations"]["post"] =
+      upload_operation("Upload raw positions (CSV batch columns or JSON rows); idempotent by (transect, image id)", "ObservationRows");
+  paths["/v1/sites/{site}/water-levels"]["post"] = upload_operation("Upload a water-level record; idempotent by time", "WaterLevelRows");
+  paths["/v1/sites/{site}/waves"]["post"] = upload_operation("Upload a wave record; idempotent by time", "WaveRows");
+  paths["/v1/sites/{site}/slopes"]["post"] = upload_operation("Upload per-transect slopes; idempotent by transect", "SlopeRows");
+  paths["/v1/sites/{site}/tide-constituents"]["post"] = {
+      {"summary", "Upload a tide constituent file (JSON); idempotent by content hash"}, {"security", write_security},
+      {"parameters", json::array({site})},
+      {"requestBody", {{"required", true}, {"content", {{"application/json", {{"schema", {{"type", "object"}}}}}}}}},
+      {"responses", merge({{"201", json_response("Stored", "UploadReport")}, {"200", json_response("Already stored (same content)", "UploadReport")}},
+                          errors({400, 401, 403, 404, 413, 415, 422, 503}))}};
+  paths["/v1/sites/{site}/uploads"]["get"] = {{"summary", "Uploads, newest first (paged)"}, {"security", read_security},
+                                              {"parameters", json::array({site, paging[0], paging[1]})},
+                                              {"responses", merge({{"200", json_response("A page of uploads", "UploadPage")}}, errors({304, 400, 401, 404, 503}))}};
+  const json upload_params = json::array({site, path_param("upload", "upload id")});
+  paths["/v1/sites/{site}/uploads/{upload}"]["get"] = {{"summary", "One upload"}, {"security", read_security}, {"parameters", upload_params},
+                                                       {"responses", merge({{"200", json_response("The upload", "Upload")}}, errors({304, 401, 404, 503}))}};
+  paths["/v1/sites/{site}/uploads/{upload}"]["delete"] = {
+      {"summary", "Retract an upload: its rows leave future runs; who, when and why are recorded; nothing is erased until a purge"},
+      {"security", write_security},
+      {"parameters", json::array({site, path_param("upload", "upload id"), query_param("reason", "why (or a JSON body {\"reason\": ...})")})},
+      {"responses", merge({{"200", json_response("Retracted", "Upload")}}, errors({400, 401, 403, 404, 409, 415, 422, 503}))}};
+  paths["/v1/sites/{site}/purge"]["post"] = {{"summary", "Physically erase the rows of retracted uploads"}, {"security", write_security},
+                                             {"parameters", json::array({site})},
+                                             {"responses", merge({{"200", json_response("Rows erased", "PurgeReport")}}, errors({401, 403, 404, 503}))}};
+  paths["/v1/sites/{site}/runs"]["post"] = {
+      {"summary", "Start a run (body: the batch --config JSON; empty = the site's processing defaults)"},
+      {"security", write_security},
+      {"parameters", json::array({site, query_param("transects", "changed (default): only transects with new inputs since the last finished run; all",
+                                                    {{"type", "string"}, {"enum", {"changed", "all"}}})})},
+      {"requestBody", {{"required", false}, {"content", {{"application/json", {{"schema", {{"type", "object"}}}}}}}}},
+      {"responses", merge({{"202", json_response("Queued; poll the Location", "Run")}}, errors({400, 401, 403, 404, 415, 422, 503}))}};
+  paths["/v1/sites/{site}/runs"]["get"] = {{"summary", "Runs of a site, newest first (paged)"}, {"security", read_security},
+                                           {"parameters", json::array({site, paging[0], paging[1]})},
+                                           {"responses", merge({{"200", json_response("A page of runs", "RunPage")}}, errors({304, 400, 401, 404, 503}))}};
+  paths["/v1/runs/{run}"]["get"] = {{"summary", "State, progress, timings and provenance of a run"}, {"security", read_security},
+                                    {"parameters", json::array({path_param("run", "run id")})},
+                                    {"responses", merge({{"200", json_response("The run", "Run")}}, errors({304, 401, 404, 503}))}};
+  paths["/v1/sites/{site}/transects/{transect}/series"]["get"] = {
+      {"summary", "Cleaned rows of one transect from the latest finished run or a given run"}, {"security", read_security},
+      {"parameters", json::array({site, path_param("transect", "transect id"),
+                                  query_param("run", "latest (default) or a run id"),
+                                  query_param("format", "json (default) or csv", {{"type", "string"}, {"enum", {"json", "csv"}}})})},
+      {"responses", merge({{"200", {{"description", "The series (ETag for revalidation)"},
+                                    {"content", {{"application/json", {{"schema", ref("Series")}}}, {"text/csv", {{"schema", str}}}}}}}},
+                          errors({304, 400, 401, 404, 503}))}};
+  paths["/v1/sites/{site}/summary"]["get"] = {{"summary", "Latest per-transect summaries"}, {"security", read_security},
+                                              {"parameters", json::array({site})},
+                                              {"responses", merge({{"200", json_response("Summary", "Summary")}}, errors({304, 401, 404, 503}))}};
+  paths["/v1/sites/{site}/changes"]["get"] = {
+      {"summary", "Transects whose results changed since a cursor"}, {"security", read_security},
+      {"parameters", json::array({site, query_param("since", "cursor returned by the previous call (0 = from the start)"),
+                                  query_param("limit", "at most this many items", integer)})},
+      {"responses", merge({{"200", json_response("Changes and the next cursor", "Changes")}}, errors({400, 401, 404, 503}))}};
+
+  json schemas;
+  schemas["Problem"] = {{"type", "object"},
+                        {"description", "RFC 7807 problem details; `type` is stable per kind of error; uploads add `rows`"},
+                        {"properties", {{"type", str}, {"title", str}, {"status", integer}, {"detail", str}, {"instance", str},
+                                        {"pointer", str}, {"rows", {{"type", "array"}, {"items", ref("RowIssue")}}}}},
+                        {"required", {"type", "title", "status", "detail"}}};
+  schemas["RowIssue"] = {{"type", "object"},
+                         {"properties", {{"line", integer}, {"pointer", str}, {"key", str}, {"field", str}, {"value", str}, {"reason", str}}},
+                         {"required", {"reason"}}};
+  schemas["Health"] = {{"type", "object"}, {"properties", {{"status", str}, {"version", str}, {"runs_active", integer}}}};
+  schemas["SiteCreate"] = {{"type", "object"},
+                           {"properties", {{"id", str}, {"name", str}, {"crs", str}, {"reference_elevation_m", num},
+                                           {"default_slope", num_or_null}, {"processing_defaults", {{"type", "object"}}}}},
+                           {"required", {"id", "name", "crs"}}, {"additionalProperties", false}};
+  schemas["Site"] = merge(schemas["SiteCreate"], {{"properties", merge(schemas["SiteCreate"]["properties"], {{"created_at", str}})}});
+  schemas["SitePage"] = {{"type", "object"}, {"properties", {{"items", {{"type", "array"}, {"items", ref("Site")}}}, {"next_cursor", {{"type", "string"}, {"nullable", true}}}}}};
+  schemas["FeatureCollection"] = {{"type", "object"}, {"description", "GeoJSON (RFC 7946) FeatureCollection"},
+                                  {"properties", {{"type", {{"type", "string"}, {"enum", {"FeatureCollection"}}}}, {"features", {{"type", "array"}, {"items", {{"type", "object"}}}}}}},
+                                  {"required", {"type", "features"}}};
+  schemas["ObservationRows"] = rows_schema("observations",
+                                           {{"transect_id", str}, {"time", str}, {"chainage_m", num}, {"sensor", str}, {"image_id", str},
+                                            {"cloud_fraction", num_or_null}, {"georef_rmse_m", num_or_null}},
+                                           {"transect_id", "time", "chainage_m", "sensor", "image_id"});
+  schemas["WaterLevelRows"] = rows_schema("water_levels", {{"time", str}, {"level_m", num}}, {"time", "level_m"});
+  schemas["WaveRows"] = rows_schema("waves", {{"time", str}, {"hs_m", num}, {"tp_s", num}, {"dir_deg", num_or_null}, {"depth_m", num_or_null}},
+                                    {"time", "hs_m", "tp_s"});
+  schemas["SlopeRows"] = rows_schema("slopes", {{"transect_id", str}, {"slope", num}, {"slope_sigma", num_or_null}}, {"transect_id", "slope"});
+  schemas["UploadReport"] = {{"type", "object"},
+                             {"properties", {{"upload_id", integer}, {"kind", str}, {"received", integer}, {"inserted", integer},
+                                             {"duplicates", integer}, {"duplicate_rows", {{"type", "array"}, {"items", ref("RowIssue")}}},
+                                             {"rejected", integer}, {"rejected_rows", {{"type", "array"}, {"items", ref("RowIssue")}}}}}};
+  schemas["Upload"] = {{"type", "object"},
+                       {"properties", {{"upload_id", integer}, {"kind", str}, {"received_at", str}, {"uploaded_by", str},
+                                       {"content_type", str}, {"sha256", str}, {"received", integer}, {"inserted", integer},
+                                       {"duplicates", integer}, {"rejected", integer},
+                                       {"retraction", {{"type", "object"}, {"nullable", true}, {"properties", {{"at", str}, {"by", str}, {"reason", str}}}}},
+                                       {"purged_at", {{"type", "string"}, {"nullable", true}}}, {"href", str}}}};
+  schemas["UploadPage"] = {{"type", "object"}, {"properties", {{"items", {{"type", "array"}, {"items", ref("Upload")}}}, {"next_cursor", {{"type", "string"}, {"nullable", true}}}}}};
+  schemas["PurgeReport"] = {{"type", "object"}, {"properties", {{"site", str}, {"rows_erased", integer}}}};
+  schemas["Run"] = {{"type", "object"},
+                    {"properties", {{"run_id", integer}, {"site", str},
+                                    {"state", {{"type", "string"}, {"enum", {"queued", "running", "done", "failed"}}}},
+                                    {"reason", {{"type", "string"}, {"nullable", true}}}, {"scope", str},
+                                    {"progress", {{"type", "object"}, {"properties", {{"transects_done", integer}, {"transects_total", integer}}}}},
+                                    {"timings", {{"type", "object"}, {"properties", {{"created_at", str}, {"started_at", str}, {"finished_at", str}}}}},
+                                    {"requested_by", str}, {"options", {{"type", "object"}}}, {"provenance", {{"type", "object"}}}, {"href", str}}}};
+  schemas["RunPage"] = {{"type", "object"}, {"properties", {{"items", {{"type", "array"}, {"items", ref("Run")}}}, {"next_cursor", {{"type", "string"}, {"nullable", true}}}}}};
+  schemas["Series"] = {{"type", "object"},
+                       {"properties", {{"site", str}, {"transect_id", str}, {"run_id", integer},
+                                       {"rows", {{"type", "array"}, {"items", {{"type", "object"}, {"description", "cleaned row (formats reference)"}}}}}}}};
+  schemas["Summary"] = {{"type", "object"},
+                        {"properties", {{"site", str}, {"latest_run", {{"type", "integer"}, {"nullable", true}}},
+                                        {"transects", {{"type", "array"}, {"items", {{"type", "object"}}}}}}}};
+  schemas["Changes"] = {{"type", "object"},
+                        {"properties", {{"site", str}, {"cursor", str}, {"more", {{"type", "boolean"}}},
+                                        {"items", {{"type", "array"}, {"items", {{"type", "object"}, {"properties", {{"transect_id", str}, {"run_id", integer}, {"etag", str}, {"series", str}}}}}}}}}};
+
+  return {{"openapi", "3.0.3"},
+          {"info", {{"title", "Strandline service"}, {"version", STRANDLINE_VERSION},
+                    {"description", "Raw satellite-derived shoreline positions in; corrected, quality-controlled series out."}}},
+          {"paths", paths},
+          {"components", {{"schemas", schemas}, {"securitySchemes", {{"bearer", {{"type", "http"}, {"scheme", "bearer"}}}}}}}};
+}
+
+}  // namespace
+
+const nlohmann::json& openapi_document() {
+  static const nlohmann::json document = build();
+  return document;
+}
+
+}  // namespace strandline::http

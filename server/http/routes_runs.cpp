@@ -1,0 +1,175 @@
+// Runs and their results: series, summary, changes.
+#include "corrections/core/errors.h"
+#include "server/http/run_executor.h"
+#include "server/http/service_internal.h"
+#include "server/store/api_keys.h"
+
+namespace strandline::http {
+
+namespace {
+
+std::int64_t positive_id(const std::string& text, const std::string& what) {
+  std::size_t used = 0;
+  std::int64_t id = 0;
+  try {
+    id = std::stoll(text, &used);
+  } catch (...) {
+  }
+  if (used != text.size() || id <= 0)
+    throw Problem(404, problem_type::not_found, "Not found", what + " \"" + text + "\" not found");
+  return id;
+}
+
+nlohmann::json run_json(Context& c, const store::RunInfo& r, bool with_provenance) {
+  auto progress = c.service.runs.progress(r.id);
+  std::int64_t done = r.state == "done" ? r.transects_total : r.transects_done;
+  std::int64_t total = r.transects_total;
+  if (progress && r.state == "running") {
+    done = progress->done;
+    total = std::max(progress->total, total);
+  }
+  nlohmann::json j = {{"run_id", r.id},
+                      {"site", r.site_id},
+                      {"state", r.state},
+                      {"reason", r.state == "failed" ? nlohmann::json(r.reason) : nlohmann::json()},
+                      {"scope", r.scope},
+                      {"progress", {{"transects_done", done}, {"transects_total", total}}},
+                      {"timings",
+                       {{"created_at", r.created_at},
+                        {"started_at", r.started_at.empty() ? nlohmann::json() : nlohmann::json(r.started_at)},
+                        {"finished_at", r.finished_at.empty() ? nlohmann::json() : nlohmann::json(r.finished_at)}}},
+                      {"requested_by", r.requested_by},
+                      {"options", r.options},
+                      {"href", "/v1/runs/" + std::to_string(r.id)}};
+  if (with_provenance) j["provenance"] = r.provenance;
+  return j;
+}
+
+void start_run(Context& c) {
+  const auto site = c.site_or_404(c.path_param(0));
+  nlohmann::json options = nlohmann::json::object();
+  if (!c.req.body.empty()) options = c.json_body();
+  if (!options.is_object()) throw Problem(422, problem_type::invalid_config, "Invalid run options",
+                                          "expected a JSON object (the batch --config shape)", {{"pointer", ""}});
+  pipeline_for(site, options);  // ConfigError -> 422 naming the pointer, before anything is queued
+  const std::string scope = c.query("transects").value_or("changed");
+  if (scope != "changed" && scope != "all")
+    throw Problem(400, problem_type::bad_request, "Bad query parameter", "transects must be \"changed\" or \"all\"",
+                  {{"parameter", "transects"}});
+  store::RunInfo run;
+  run.site_id = site.id;
+  run.options = options;
+  run.scope = scope;
+  run.input_seq = c.service.store.input_seq(site.id);
+  run.requested_by = c.key_name;
+  if (c.service.runs.active() >= c.service.options.max_queued_runs) {
+    c.res.set_header("Retry-After", std::to_string(c.service.options.retry_after_s * 10));
+    throw Problem(503, problem_type::overloaded, "Run queue full", "too many runs queued; retry later");
+  }
+  run.id = c.service.store.create_run(run);
+  if (!c.service.runs.enqueue(run.id)) {
+    c.service.store.mark_run_failed(run.id, "the run queue was full");
+    c.res.set_header("Retry-After", std::to_string(c.service.options.retry_after_s * 10));
+    throw Problem(503, problem_type::overloaded, "Run queue full", "too many runs queued; retry later");
+  }
+  c.res.set_header("Location", "/v1/runs/" + std::to_string(run.id));
+  c.reply(202, run_json(c, *c.service.store.run(run.id), false));
+}
+
+void get_run(Context& c) {
+  const auto id = positive_id(c.path_param(0), "run");
+  auto run = c.service.store.run(id);
+  if (!run) throw Problem(404, problem_type::not_found, "Not found", "run " + std::to_string(id) + " not found");
+  c.reply(200, run_json(c, *run, true));
+}
+
+void list_runs(Context& c) {
+  const auto site = c.site_or_404(c.path_param(0));
+  const auto limit = c.query_integer("limit", 50, 1000);
+  const auto before = c.query_integer("cursor", 0, INT64_MAX);
+  auto runs = c.service.store.runs(site.id, before, static_cast<int>(limit));
+  nlohmann::json items = nlohmann::json::array();
+  for (const auto& r : runs) items.push_back(run_json(c, r, false));
+  const bool full = static_cast<std::int64_t>(runs.size()) == limit && limit > 0;
+  c.reply(200, {{"items", items}, {"next_cursor", full ? nlohmann::json(std::to_string(runs.back().id)) : nlohmann::json()}});
+}
+
+void get_series(Context& c) {
+  const auto site = c.site_or_404(c.path_param(0));
+  const std::string transect = c.path_param(1);
+  const std::string format = c.query("format").value_or("json");
+  if (format != "json" && format != "csv")
+    throw Problem(400, problem_type::bad_request, "Bad query parameter", "format must be \"json\" or \"csv\"",
+                  {{"parameter", "format"}});
+  const std::string run_text = c.query("run").value_or("latest");
+  const std::int64_t run_id = run_text == "latest" ? 0 : positive_id(run_text, "run");
+  auto result = c.service.store.result(site.id, transect, run_id);
+  if (!result) {
+    bool defined = false;
+    for (const auto& t : c.service.store.transects(site.id)) defined = defined || t.id == transect;
+    const std::string what = !defined ? "transect \"" + transect + "\" not found in site \"" + site.id + "\""
+                             : run_id ? "run " + run_text + " has no result for transect \"" + transect + "\""
+                                      : "transect \"" + transect + "\" has no finished run yet";
+    throw Problem(404, problem_type::not_found, "Not found", what);
+  }
+  c.res.set_header("X-Run-Id", std::to_string(result->run_id));
+  if (format == "csv") {
+    reply_with_etag(c, result->sha256 + "-csv", std::move(result->rows_csv), "text/csv");
+  } else {
+    std::string body = "{\"site\":" + nlohmann::json(site.id).dump() + ",\"transect_id\":" +
+                       nlohmann::json(transect).dump() + ",\"run_id\":" + std::to_string(result->run_id) +
+                       ",\"rows\":" + result->rows_json + "}";
+    reply_with_etag(c, result->sha256 + "-json", std::move(body), "application/json");
+  }
+}
+
+void get_summary(Context& c) {
+  const auto site = c.site_or_404(c.path_param(0));
+  nlohmann::json transects = nlohmann::json::array();
+  std::string hashes;
+  for (const auto& r : c.service.store.latest_summaries(site.id)) {
+    transects.push_back({{"transect_id", r.transect_id}, {"run_id", r.run_id}, {"summary", r.summary}});
+    hashes += r.sha256;
+  }
+  const auto latest = c.service.store.latest_done_run(site.id);
+  nlohmann::json body = {{"site", site.id},
+                         {"latest_run", latest ? nlohmann::json(latest->id) : nlohmann::json()},
+                         {"transects", transects}};
+  std::string text = body.dump();
+  reply_with_etag(c, store::sha256_hex(text).substr(0, 32), std::move(text), "application/json");
+}
+
+// The cursor is the last change sequence number seen: opaque to clients.
+void get_changes(Context& c) {
+  const auto site = c.site_or_404(c.path_param(0));
+  const auto since = c.query_integer("since", 0, INT64_MAX);
+  const auto limit = c.query_integer("limit", 1000, 10000);
+  auto changes = c.service.store.changes(site.id, since, static_cast<int>(limit));
+  nlohmann::json items = nlohmann::json::array();
+  std::int64_t cursor = since;
+  for (const auto& r : changes) {
+    items.push_back({{"transect_id", r.transect_id},
+                     {"run_id", r.run_id},
+                     {"etag", "\"" + r.sha256 + "-json\""},
+                     {"series", "/v1/sites/" + site.id + "/transects/" + r.transect_id + "/series?run=" +
+                                    std::to_string(r.run_id)}});
+    cursor = r.seq;
+  }
+  const bool more = static_cast<std::int64_t>(changes.size()) == limit;
+  c.reply(200, {{"site", site.id}, {"items", items}, {"cursor", std::to_string(cursor)}, {"more", more}});
+}
+
+}  // namespace
+
+std::vector<Route> run_routes() {
+  return {
+      {{"POST", "/v1/sites/{site}/runs"}, Access::write, start_run},
+      {{"GET", "/v1/sites/{site}/runs"}, Access::read, list_runs},
+      {{"GET", "/v1/runs/{run}"}, Access::read, get_run},
+      {{"GET", "/v1/sites/{site}/transects/{transect}/series"}, Access::read, get_series},
+      {{"GET", "/v1/sites/{site}/summary"}, Access::read, get_summary},
+      {{"GET", "/v1/sites/{site}/changes"}, Access::read, get_changes},
+  };
+}
+
+}  // namespace strandline::http

@@ -1,0 +1,261 @@
+#include <chrono>
+#include <iostream>
+#include <regex>
+
+#include "corrections/core/errors.h"
+#include "server/http/service_internal.h"
+#include "server/store/api_keys.h"
+
+namespace strandline::http {
+
+namespace {
+
+std::vector<Route> all_routes() {
+  std::vector<Route> out;
+  for (auto part : {meta_routes(), site_routes(), upload_routes(), run_routes()})
+    out.insert(out.end(), part.begin(), part.end());
+  return out;
+}
+
+// /v1/sites/{site} -> ^/v1/sites/([^/]+)$ (cpp-httplib matches the decoded path).
+std::string route_regex(const std::string& path) {
+  static const std::regex param(R"(\{[a-z_]+\})");
+  std::string escaped = std::regex_replace(path, std::regex(R"([.])"), R"(\.)");
+  return std::regex_replace(escaped, param, "([^/]+)");
+}
+
+std::string bearer_token(const httplib::Request& req) {
+  const std::string h = req.get_header_value("Authorization");
+  const std::string scheme = "Bearer ";
+  if (h.size() <= scheme.size() || h.compare(0, scheme.size(), scheme) != 0) return {};
+  return h.substr(scheme.size());
+}
+
+struct InFlight {
+  std::atomic<std::size_t>& n;
+  std::size_t now;
+  explicit InFlight(std::atomic<std::size_t>& n) : n(n), now(++n) {}
+  ~InFlight() { --n; }
+};
+
+}  // namespace
+
+void write_problem(httplib::Response& res, const Problem& p, const std::string& instance) {
+  res.status = p.status;
+  res.set_content(p.to_json(instance).dump(), kProblemContentType);
+}
+
+std::optional<std::string> Context::query(const std::string& name) const {
+  if (!req.has_param(name.c_str())) return std::nullopt;
+  return req.get_param_value(name.c_str());
+}
+
+std::int64_t Context::query_integer(const std::string& name, std::int64_t fallback, std::int64_t max) const {
+  auto text = query(name);
+  if (!text) return fallback;
+  std::int64_t v = 0;
+  std::size_t used = 0;
+  try {
+    v = std::stoll(*text, &used);
+  } catch (...) {
+    used = 0;
+  }
+  if (used != text->size() || v < 0 || v > max)
+    throw Problem(400, problem_type::bad_request, "Bad query parameter",
+                  "query parameter \"" + name + "\" must be an integer from 0 to " + std::to_string(max),
+                  {{"parameter", name}});
+  return v;
+}
+
+nlohmann::json Context::json_body() const {
+  const std::string type = req.get_header_value("Content-Type");
+  if (type.rfind("application/json", 0) != 0)
+    throw Problem(415, problem_type::unsupported_media_type, "Unsupported media type",
+                  "expected Content-Type application/json, got \"" + type + "\"");
+  try {
+    return nlohmann::json::parse(req.body);
+  } catch (const nlohmann::json::parse_error& e) {
+    throw Problem(400, problem_type::bad_json, "Malformed JSON", e.what());
+  }
+}
+
+void Context::reply(int status, const nlohmann::json& body) {
+  res.status = status;
+  res.set_content(body.dump(), "application/json");
+}
+
+void Context::reply_text(int status, std::string body, const std::string& content_type) {
+  res.status = status;
+  res.set_content(std::move(body), content_type.c_str());
+}
+
+store::Site Context::site_or_404(const std::string& site_id) const {
+  auto site = service.store.site(site_id);
+  if (!site) throw Problem(404, problem_type::not_found, "Not found", "site \"" + site_id + "\" not found");
+  return *site;
+}
+
+void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type) {
+  const std::string quoted = "\"" + etag + "\"";
+  c.res.set_header("ETag", quoted);
+  const std::string match = c.req.get_header_value("If-None-Match");
+  if (!match.empty() && (match == quoted || match == "*" || match.find(quoted) != std::string::npos)) {
+    c.res.status = 304;
+    return;
+  }
+  c.reply_text(200, std::move(text), content_type);
+}
+
+Service::Impl::Impl(store::Store& store, ServiceOptions options)
+    : store(store),
+      options(options),
+      runs(store, metrics, options.run_workers, options.max_queued_runs) {}
+
+void Service::Impl::dispatch(const Route& route, const httplib::Request& req, httplib::Response& res) {
+  const auto start = std::chrono::steady_clock::now();
+  InFlight guard(in_flight);
+  Context c{req, res, *this, "anonymous"};
+  try {
+    if (guard.now > options.max_concurrent_requests) {
+      metrics.count_overload();
+      res.set_header("Retry-After", std::to_string(options.retry_after_s));
+      throw Problem(503, problem_type::overloaded, "Service overloaded",
+                    "more than " + std::to_string(options.max_concurrent_requests) +
+                        " requests in progress; retry after " + std::to_string(options.retry_after_s) + " s");
+    }
+    const bool needs_key = route.access == Access::write || (route.access == Access::read && options.read_key_required);
+    const std::string token = bearer_token(req);
+    if (needs_key || !token.empty()) {
+      if (token.empty()) {
+        res.set_header("WWW-Authenticate", "Bearer");
+        throw Problem(401, problem_type::unauthorized, "Unauthorized",
+                      "this request needs an API key: Authorization: Bearer <key>");
+      }
+      auto key = store::verify_api_key(store, token);
+      if (!key) {
+        res.set_header("WWW-Authenticate", "Bearer error=\"invalid_token\"");
+        throw Problem(401, problem_type::unauthorized, "Unauthorized", "the API key is unknown or revoked");
+      }
+      if (route.access == Access::write && key->role != "write")
+        throw Problem(403, problem_type::forbidden, "Forbidden",
+                      "key \"" + key->name + "\" is read-only; this request writes");
+      c.key_name = key->name;
+    }
+    route.handler(c);
+  } catch (const Problem& p) {
+    write_problem(res, p, req.path);
+  } catch (const store::ConflictError& e) {
+    nlohmann::json rows = nlohmann::json::array();
+    for (const auto& r : e.rows) {
+      nlohmann::json j = {{"line", r.line}, {"key", r.key}, {"reason", r.reason}};
+      if (!r.field.empty()) j["field"] = r.field;
+      rows.push_back(j);
+    }
+    write_problem(res,
+                  Problem(409, problem_type::conflict, "Conflict with stored rows",
+                          std::to_string(e.rows.size()) + " row(s) contradict stored values; nothing was stored",
+                          {{"rows", rows}}),
+                  req.path);
+  } catch (const store::AlreadyExists& e) {
+    write_problem(res, Problem(409, problem_type::already_exists, "Already exists", e.what()), req.path);
+  } catch (const store::NotFound& e) {
+    write_problem(res, Problem(404, problem_type::not_found, "Not found", e.what()), req.path);
+  } catch (const ConfigError& e) {
+    write_problem(res,
+                  Problem(422, problem_type::invalid_config, "Invalid run options", e.what(), {{"pointer", e.pointer}}),
+                  req.path);
+  } catch (const InputError& e) {
+    write_problem(res, Problem(422, problem_type::invalid_body, "Invalid input", e.what()), req.path);
+  } catch (const std::exception& e) {
+    std::cerr << "strandline serve: " << req.method << " " << req.path << ": internal error: " << e.what() << "\n";
+    write_problem(res, Problem(500, problem_type::internal, "Internal error", e.what()), req.path);
+  }
+  metrics.observe_request(req.method, route.info.path, res.status,
+                          std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count());
+}
+
+void Service::Impl::install_routes() {
+  static const std::vector<Route> table = all_routes();
+  for (const auto& route : table) {
+    auto handler = [this, &route](const httplib::Request& req, httplib::Response& res) { dispatch(route, req, res); };
+    const std::string pattern = route_regex(route.info.path);
+    if (route.info.method == "GET") server.Get(pattern, handler);
+    else if (route.info.method == "POST") server.Post(pattern, handler);
+    else if (route.info.method == "PUT") server.Put(pattern, handler);
+    else if (route.info.method == "DELETE") server.Delete(pattern, handler);
+  }
+  // Responses cpp-httplib produces itself (unknown path, body too large) get a
+  // problem body too; handler responses already carry one.
+  server.set_error_handler(httplib::Server::HandlerWithResponse([](const httplib::Request& req, httplib::Response& res) {
+    if (!res.body.empty()) return httplib::Server::HandlerResponse::Unhandled;
+    if (res.status == 413)
+      write_problem(res, Problem(413, problem_type::too_large, "Payload too large", "the request body exceeds the limit"),
+                    req.path);
+    else if (res.status == 404)
+      write_problem(res, Problem(404, problem_type::not_found, "Not found", "no route for " + req.method + " " + req.path),
+                    req.path);
+    else
+      write_problem(res, Problem(res.status, problem_type::bad_request, "Bad request", "the request was refused"),
+                    req.path);
+    return httplib::Server::HandlerResponse::Handled;
+  }));
+  server.set_exception_handler([](const httplib::Request& req, httplib::Response& res, std::exception_ptr ep) {
+    std::string what = "unknown exception";
+    try {
+      if (ep) std::rethrow_exception(ep);
+    } catch (const std::exception& e) {
+      what = e.what();
+    } catch (...) {
+    }
+    write_problem(res, Problem(500, problem_type::internal, "Internal error", what), req.path);
+  });
+}
+
+const std::vector<RouteInfo>& Service::routes() {
+  static const std::vector<RouteInfo> infos = [] {
+    std::vector<RouteInfo> out;
+    for (const auto& r : all_routes()) out.push_back(r.info);
+    return out;
+  }();
+  return infos;
+}
+
+Service::Service(store::Store& store, ServiceOptions options) : impl_(std::make_unique<Impl>(store, options)) {
+  store.fail_interrupted_runs();
+  auto& s = impl_->server;
+  const unsigned threads = std::max<unsigned>(options.http_threads, 2);
+  s.new_task_queue = [threads] { return new httplib::ThreadPool(threads); };
+  s.set_payload_max_length(options.max_body_bytes);
+  s.set_keep_alive_max_count(100000);
+  s.set_keep_alive_timeout(5);
+  s.set_read_timeout(30);
+  s.set_write_timeout(30);
+  if (!options.static_dir.empty() && !s.set_mount_point("/", options.static_dir))
+    throw std::runtime_error("static folder " + options.static_dir + " does not exist");
+  impl_->install_routes();
+}
+
+Service::~Service() { stop(); }
+
+int Service::bind(const std::string& host, int port) {
+  auto& s = impl_->server;
+  impl_->port = port == 0 ? s.bind_to_any_port(host) : (s.bind_to_port(host, port) ? port : -1);
+  return impl_->port;
+}
+
+void Service::listen() { impl_->server.listen_after_bind(); }
+
+void Service::start() {
+  impl_->listener = std::thread([this] { impl_->server.listen_after_bind(); });
+  while (!impl_->server.is_running()) std::this_thread::sleep_for(std::chrono::milliseconds(2));
+}
+
+void Service::stop() {
+  if (!impl_) return;
+  impl_->server.stop();
+  if (impl_->listener.joinable()) impl_->listener.join();
+}
+
+RunManager& Service::runs() { return impl_->runs; }
+
+}  // namespace strandline::http

@@ -1,0 +1,78 @@
+// Shared by the route files of the service (and only by them: it includes
+// httplib.h). A route handler receives a Context and either fills the response
+// or throws a Problem / store error, which the router renders as RFC 7807.
+#pragma once
+
+#include <atomic>
+#include <functional>
+#include <optional>
+#include <string>
+#include <thread>
+
+#include <httplib.h>
+#include <nlohmann/json.hpp>
+
+#include "server/http/metrics.h"
+#include "server/http/problem.h"
+#include "server/http/run_manager.h"
+#include "server/http/service.h"
+#include "server/store/store.h"
+
+namespace strandline::http {
+
+enum class Access { open, read, write };
+
+struct Context {
+  const httplib::Request& req;
+  httplib::Response& res;
+  Service::Impl& service;
+  std::string key_name;  // who is calling ("anonymous" without a key)
+
+  std::string path_param(std::size_t i) const { return req.matches[i + 1]; }
+  std::optional<std::string> query(const std::string& name) const;
+  // A positive integer query parameter with a default and a maximum; 400 otherwise.
+  std::int64_t query_integer(const std::string& name, std::int64_t fallback, std::int64_t max) const;
+  nlohmann::json json_body() const;  // 415 unless application/json, 400 on bad JSON
+  void reply(int status, const nlohmann::json& body);
+  void reply_text(int status, std::string body, const std::string& content_type);
+  // 404 Problem when the site does not exist.
+  store::Site site_or_404(const std::string& site_id) const;
+};
+
+using HandlerFn = void (*)(Context&);
+
+struct Route {
+  RouteInfo info;
+  Access access;
+  HandlerFn handler;
+};
+
+// Each route file contributes its table.
+std::vector<Route> site_routes();
+std::vector<Route> upload_routes();
+std::vector<Route> run_routes();
+std::vector<Route> meta_routes();
+
+struct Service::Impl {
+  Impl(store::Store& store, ServiceOptions options);
+
+  store::Store& store;
+  ServiceOptions options;
+  Metrics metrics;
+  RunManager runs;
+  httplib::Server server;
+  std::thread listener;
+  std::atomic<std::size_t> in_flight{0};
+  int port = -1;
+
+  void install_routes();
+  void dispatch(const Route& route, const httplib::Request& req, httplib::Response& res);
+};
+
+// Renders a problem into the response.
+void write_problem(httplib::Response& res, const Problem& p, const std::string& instance);
+
+// Writes `text` for a GET with an ETag, or 304 when If-None-Match matches.
+void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type);
+
+}  // namespace strandline::http

@@ -1,0 +1,178 @@
+#include "server/store/sqlite_schema.h"
+
+#include <string>
+#include <vector>
+
+namespace strandline::store {
+
+namespace {
+
+struct Migration {
+  int version;
+  const char* sql;
+};
+
+// `live` marks rows of uploads that are not retracted; values are never updated.
+// The partial unique indexes make idempotency a single INSERT ... ON CONFLICT.
+const std::vector<Migration> kMigrations = {
+    {1, R"sql(
+CREATE TABLE sites(
+  site_key INTEGER PRIMARY KEY,
+  id TEXT NOT NULL UNIQUE,
+  name TEXT NOT NULL,
+  crs TEXT NOT NULL,
+  reference_elevation_m REAL NOT NULL,
+  default_slope REAL,
+  processing_defaults TEXT NOT NULL,
+  created_at TEXT NOT NULL);
+CREATE TABLE transects(
+  site_key INTEGER NOT NULL REFERENCES sites(site_key),
+  transect_id TEXT NOT NULL,
+  origin_x_m REAL, origin_y_m REAL, azimuth_deg REAL, length_m REAL,
+  feature TEXT NOT NULL,
+  PRIMARY KEY(site_key, transect_id));
+CREATE TABLE uploads(
+  id INTEGER PRIMARY KEY,
+  site_key INTEGER NOT NULL REFERENCES sites(site_key),
+  kind TEXT NOT NULL,
+  content_type TEXT NOT NULL,
+  sha256 TEXT NOT NULL,
+  received_at TEXT NOT NULL,
+  uploaded_by TEXT NOT NULL,
+  rows_received INTEGER NOT NULL,
+  rows_inserted INTEGER NOT NULL,
+  rows_duplicate INTEGER NOT NULL,
+  rows_rejected INTEGER NOT NULL);
+CREATE INDEX uploads_by_site ON uploads(site_key, id);
+CREATE INDEX uploads_by_hash ON uploads(site_key, kind, sha256);
+CREATE TABLE retractions(
+  upload_id INTEGER PRIMARY KEY REFERENCES uploads(id),
+  retracted_at TEXT NOT NULL,
+  retracted_by TEXT NOT NULL,
+  reason TEXT NOT NULL,
+  purged_at TEXT);
+CREATE TABLE observations(
+  id INTEGER PRIMARY KEY,
+  upload_id INTEGER NOT NULL REFERENCES uploads(id),
+  site_key INTEGER NOT NULL,
+  transect_id TEXT NOT NULL,
+  image_id TEXT NOT NULL,
+  time_s REAL NOT NULL,
+  chainage_m REAL NOT NULL,
+  sensor TEXT NOT NULL,
+  cloud_fraction REAL,
+  georef_rmse_m REAL,
+  live INTEGER NOT NULL DEFAULT 1);
+CREATE UNIQUE INDEX observations_live ON observations(site_key, transect_id, image_id) WHERE live = 1;
+CREATE INDEX observations_by_upload ON observations(upload_id);
+CREATE TABLE water_levels(
+  id INTEGER PRIMARY KEY,
+  upload_id INTEGER NOT NULL REFERENCES uploads(id),
+  site_key INTEGER NOT NULL,
+  time_s REAL NOT NULL,
+  level_m REAL NOT NULL,
+  live INTEGER NOT NULL DEFAULT 1);
+CREATE UNIQUE INDEX water_levels_live ON water_levels(site_key, time_s) WHERE live = 1;
+CREATE INDEX water_levels_by_upload ON water_levels(upload_id);
+CREATE TABLE waves(
+  id INTEGER PRIMARY KEY,
+  upload_id INTEGER NOT NULL REFERENCES uploads(id),
+  site_key INTEGER NOT NULL,
+  time_s REAL NOT NULL,
+  hs_m REAL NOT NULL, tp_s REAL NOT NULL, dir_deg REAL, depth_m REAL,
+  live INTEGER NOT NULL DEFAULT 1);
+CREATE UNIQUE INDEX waves_live ON waves(site_key, time_s) WHERE live = 1;
+CREATE INDEX waves_by_upload ON waves(upload_id);
+CREATE TABLE slopes(
+  id INTEGER PRIMARY KEY,
+  upload_id INTEGER NOT NULL REFERENCES uploads(id),
+  site_key INTEGER NOT NULL,
+  transect_id TEXT NOT NULL,
+  slope REAL NOT NULL,
+  slope_sigma REAL,
+  live INTEGER NOT NULL DEFAULT 1);
+CREATE UNIQUE INDEX slopes_live ON slopes(site_key, transect_id) WHERE live = 1;
+CREATE INDEX slopes_by_upload ON slopes(upload_id);
+CREATE TABLE documents(
+  id INTEGER PRIMARY KEY,
+  upload_id INTEGER NOT NULL REFERENCES uploads(id),
+  site_key INTEGER NOT NULL,
+  kind TEXT NOT NULL,
+  content TEXT NOT NULL,
+  live INTEGER NOT NULL DEFAULT 1);
+CREATE INDEX documents_by_upload ON documents(upload_id);
+-- Every upload or retraction appends what it touched: a transect, or NULL for
+-- a site-wide input. Runs remember the sequence number they saw.
+CREATE TABLE input_changes(
+  seq INTEGER PRIMARY KEY AUTOINCREMENT,
+  site_key INTEGER NOT NULL,
+  transect_id TEXT,
+  upload_id INTEGER NOT NULL);
+CREATE INDEX input_changes_by_site ON input_changes(site_key, seq);
+CREATE TABLE runs(
+  id INTEGER PRIMARY KEY,
+  site_key INTEGER NOT NULL REFERENCES sites(site_key),
+  state TEXT NOT NULL,
+  reason TEXT NOT NULL DEFAULT '',
+  options TEXT NOT NULL,
+  scope TEXT NOT NULL,
+  input_seq INTEGER NOT NULL,
+  created_at TEXT NOT NULL,
+  started_at TEXT NOT NULL DEFAULT '',
+  finished_at TEXT NOT NULL DEFAULT '',
+  transects_total INTEGER NOT NULL DEFAULT 0,
+  transects_done INTEGER NOT NULL DEFAULT 0,
+  provenance TEXT,
+  requested_by TEXT NOT NULL);
+CREATE INDEX runs_by_site ON runs(site_key, id);
+CREATE TABLE results(
+  seq INTEGER PRIMARY KEY AUTOINCREMENT,
+  run_id INTEGER NOT NULL REFERENCES runs(id),
+  site_key INTEGER NOT NULL,
+  transect_id TEXT NOT NULL,
+  rows_json TEXT NOT NULL,
+  rows_csv TEXT NOT NULL,
+  summary TEXT NOT NULL,
+  sha256 TEXT NOT NULL,
+  changed INTEGER NOT NULL);
+CREATE INDEX results_by_transect ON results(site_key, transect_id, run_id);
+CREATE INDEX results_by_seq ON results(site_key, seq);
+CREATE TABLE api_keys(
+  id INTEGER PRIMARY KEY,
+  name TEXT NOT NULL UNIQUE,
+  prefix TEXT NOT NULL UNIQUE,
+  hash TEXT NOT NULL,
+  role TEXT NOT NULL CHECK(role IN ('read', 'write')),
+  created_at TEXT NOT NULL,
+  revoked_at TEXT);
+)sql"},
+};
+
+}  // namespace
+
+int latest_sqlite_schema_version() { return kMigrations.back().version; }
+
+int migrate_sqlite_schema(Connection& db) {
+  db.exec("CREATE TABLE IF NOT EXISTS schema_migrations(version INTEGER PRIMARY KEY, applied_at TEXT NOT NULL)");
+  int current = 0;
+  {
+    auto q = db.prepare("SELECT COALESCE(MAX(version), 0) FROM schema_migrations");
+    if (q.step()) current = static_cast<int>(q.integer(0));
+  }
+  if (current > latest_sqlite_schema_version())
+    throw StoreError("database schema version " + std::to_string(current) + " is newer than this build (" +
+                     std::to_string(latest_sqlite_schema_version()) + ")");
+  for (const auto& m : kMigrations) {
+    if (m.version <= current) continue;
+    Transaction tx(db);
+    db.exec(m.sql);
+    db.prepare("INSERT INTO schema_migrations(version, applied_at) VALUES(?, strftime('%Y-%m-%dT%H:%M:%SZ','now'))")
+        .bind(1, m.version)
+        .run();
+    tx.commit();
+    current = m.version;
+  }
+  return current;
+}
+
+}  // namespace strandline::store

@@ -1,0 +1,510 @@
+// Uploads, retractions and the live inputs of runs (part of SqliteStore).
+#include <set>
+
+#include "corrections/core/time_utc.h"
+#include "server/store/sqlite_store.h"
+#include "server/store/sqlite_store_common.h"
+
+namespace strandline::store {
+
+using detail::same_value;
+using detail::site_key;
+
+namespace {
+
+constexpr std::size_t kListedDuplicates = 100;  // rows named in a report; counts stay exact
+constexpr std::size_t kListedConflicts = 1000;
+
+// The tables holding each upload kind's rows.
+const char* table_of(const std::string& kind) {
+  if (kind == "observations") return "observations";
+  if (kind == "water_levels") return "water_levels";
+  if (kind == "waves") return "waves";
+  if (kind == "slopes") return "slopes";
+  return "documents";
+}
+
+std::int64_t begin_upload(Connection& db, std::int64_t key, const std::string& kind, const UploadMeta& meta) {
+  db.prepare(
+        "INSERT INTO uploads(site_key, kind, content_type, sha256, received_at, uploaded_by, rows_received, "
+        "rows_inserted, rows_duplicate, rows_rejected) VALUES(?, ?, ?, ?, ?, ?, ?, 0, 0, ?)")
+      .bind(1, key)
+      .bind(2, kind)
+      .bind(3, meta.content_type)
+      .bind(4, meta.sha256)
+      .bind(5, now_utc_text())
+      .bind(6, meta.uploaded_by)
+      .bind(7, meta.received)
+      .bind(8, static_cast<std::int64_t>(meta.rejected.size()))
+      .run();
+  return db.last_insert_rowid();
+}
+
+// Counts are known only once the rows are in; the upload row is still inside
+// its own transaction, so no reader ever sees it incomplete.
+void end_upload(Connection& db, UploadResult& r) {
+  db.prepare("UPDATE uploads SET rows_inserted = ?, rows_duplicate = ? WHERE id = ?")
+      .bind(1, r.inserted)
+      .bind(2, r.duplicates)
+      .bind(3, r.upload_id)
+      .run();
+}
+
+void record_change(Connection& db, std::int64_t key, const std::optional<std::string>& transect,
+                   std::int64_t upload_id) {
+  db.prepare("INSERT INTO input_changes(site_key, transect_id, upload_id) VALUES(?, ?, ?)")
+      .bind(1, key)
+      .bind(2, transect)
+      .bind(3, upload_id)
+      .run();
+}
+
+// Collects duplicates and conflicts while rows are inserted; throws at the end
+// so every conflicting row is named, then the transaction rolls back.
+struct Outcome {
+  UploadResult result;
+  std::vector<RowIssue> conflicts;
+  void duplicate(std::int64_t line, std::string key) {
+    ++result.duplicates;
+    if (result.duplicate_rows.size() < kListedDuplicates)
+      result.duplicate_rows.push_back({line, std::move(key), "", "", "identical to a stored row"});
+  }
+  void conflict(std::int64_t line, std::string key, std::string field, std::string reason) {
+    if (conflicts.size() < kListedConflicts)
+      conflicts.push_back({line, std::move(key), std::move(field), "", std::move(reason)});
+    else
+      conflicts.back().reason = "(further conflicts not listed)";
+  }
+  void throw_if_conflicts() {
+    if (!conflicts.empty()) throw ConflictError(std::move(conflicts));
+  }
+};
+
+std::string time_key(TimeS t) { return format_time_utc(t); }
+
+}  // namespace
+
+UploadResult SqliteStore::add_observations(const std::string& site_id, const UploadMeta& meta,
+                                           const std::vector<ObservationRow>& rows) {
+  std::lock_guard lock(writer_mutex_);
+  Transaction tx(*writer_);
+  const auto key = site_key(*writer_, site_id);
+  Outcome out;
+  out.result.upload_id = begin_upload(*writer_, key, "observations", meta);
+  out.result.received = meta.received;
+  out.result.rejected = meta.rejected;
+  auto insert = writer_->prepare(
+      "INSERT INTO observations(upload_id, site_key, transect_id, image_id, time_s, chainage_m, sensor, "
+      "cloud_fraction, georef_rmse_m) VALUES(?, ?, ?, ?, ?, ?, ?, ?, ?) "
+      "ON CONFLICT(site_key, transect_id, image_id) WHERE live = 1 DO NOTHING");
+  auto existing = writer_->prepare(
+      "SELECT time_s, chainage_m, sensor, cloud_fraction, georef_rmse_m FROM observations "
+      "WHERE site_key = ? AND transect_id = ? AND image_id = ? AND live = 1");
+  std::set<std::string> touched;
+  for (const auto& r : rows) {
+    insert.bind(1, out.result.upload_id)
+        .bind(2, key)
+        .bind(3, r.transect_id)
+        .bind(4, r.image_id)
+        .bind(5, r.time_s)
+        .bind(6, r.chainage_m)
+        .bind(7, r.sensor)
+        .bind(8, r.cloud_fraction)
+        .bind(9, r.georef_rmse_m);
+    insert.run();
+    insert.reset();
+    if (writer_->changes() > 0) {
+      ++out.result.inserted;
+      touched.insert(r.transect_id);
+      continue;
+    }
+    existing.bind(1, key).bind(2, r.transect_id).bind(3, r.image_id);
+    existing.step();
+    std::string differs;
+    if (!same_value(existing.real(0), r.time_s)) differs = "time";
+    else if (!same_value(existing.real(1), r.chainage_m)) differs = "chainage_m";
+    else if (existing.text_view(2) != r.sensor) differs = "sensor";
+    else if (!same_value(existing.real(3), r.cloud_fraction)) differs = "cloud_fraction";
+    else if (!same_value(existing.real(4), r.georef_rmse_m)) differs = "georef_rmse_m";
+    existing.reset();
+    const std::string row_key = r.transect_id + "/" + r.image_id;
+    if (differs.empty())
+      out.duplicate(r.line, row_key);
+    else
+      out.conflict(r.line, row_key, differs,
+                   "transect " + r.transect_id + " image " + r.image_id + " is already stored with a different " +
+                       differs);
+  }
+  out.throw_if_conflicts();
+  end_upload(*writer_, out.result);
+  for (const auto& t : touched) record_change(*writer_, key, t, out.result.upload_id);
+  tx.commit();
+  return out.result;
+}
+
+UploadResult SqliteStore::add_water_levels(const std::string& site_id, const UploadMeta& meta,
+                                           const std::vector<WaterLevelRow>& rows) {
+  std::lock_guard lock(writer_mutex_);
+  Transaction tx(*writer_);
+  const auto key = site_key(*writer_, site_id);
+  Outcome out;
+  out.result.upload_id = begin_upload(*writer_, key, "water_levels", meta);
+  out.result.received = meta.received;
+  out.result.rejected = meta.rejected;
+  auto insert = writer_->prepare(
+      "INSERT INTO water_levels(upload_id, site_key, time_s, level_m) VALUES(?, ?, ?, ?) "
+      "ON CONFLICT(site_key, time_s) WHERE live = 1 DO NOTHING");
+  auto existing = writer_->prepare("SELECT level_m FROM water_levels WHERE site_key = ? AND time_s = ? AND live = 1");
+  for (const auto& r : rows) {
+    insert.bind(1, out.result.upload_id).bind(2, key).bind(3, r.time_s).bind(4, r.level_m);
+    insert.run();
+    insert.reset();
+    if (writer_->changes() > 0) {
+      ++out.result.inserted;
+      continue;
+    }
+    existing.bind(1, key).bind(2, r.time_s);
+    existing.step();
+    const bool same = same_value(existing.real(0), r.level_m);
+    existing.reset();
+    if (same)
+      out.duplicate(r.line, time_key(r.time_s));
+    else
+      out.conflict(r.line, time_key(r.time_s), "level_m", "a different water level is stored for this time");
+  }
+  out.throw_if_conflicts();
+  end_upload(*writer_, out.result);
+  if (out.result.inserted > 0) record_change(*writer_, key, std::nullopt, out.result.upload_id);
+  tx.commit();
+  return out.result;
+}
+
+UploadResult SqliteStore::add_waves(const std::string& site_id, const UploadMeta& meta,
+                                    const std::vector<WaveRow>& rows) {
+  std::lock_guard lock(writer_mutex_);
+  Transaction tx(*writer_);
+  const auto key = site_key(*writer_, site_id);
+  Outcome out;
+  out.result.upload_id = begin_upload(*writer_, key, "waves", meta);
+  out.result.received = meta.received;
+  out.result.rejected = meta.rejected;
+  auto insert = writer_->prepare(
+      "INSERT INTO waves(upload_id, site_key, time_s, hs_m, tp_s, dir_deg, depth_m) VALUES(?, ?, ?, ?, ?, ?, ?) "
+      "ON CONFLICT(site_key, time_s) WHERE live = 1 DO NOTHING");
+  auto existing = writer_->prepare(
+      "SELECT hs_m, tp_s, dir_deg, depth_m FROM waves WHERE site_key = ? AND time_s = ? AND live = 1");
+  for (const auto& r : rows) {
+    insert.bind(1, out.result.upload_id)
+        .bind(2, key)
+        .bind(3, r.time_s)
+        .bind(4, r.hs_m)
+        .bind(5, r.tp_s)
+        .bind(6, r.dir_deg)
+        .bind(7, r.depth_m);
+    insert.run();
+    insert.reset();
+    if (writer_->changes() > 0) {
+      ++out.result.inserted;
+      continue;
+    }
+    existing.bind(1, key).bind(2, r.time_s);
+    existing.step();
+    const bool same = same_value(existing.real(0), r.hs_m) && same_value(existing.real(1), r.tp_s) &&
+                      same_value(existing.real(2), r.dir_deg) && same_value(existing.real(3), r.depth_m);
+    existing.reset();
+    if (same)
+      out.duplicate(r.line, time_key(r.time_s));
+    else
+      out.conflict(r.line, time_key(r.time_s), "", "different wave conditions are stored for this time");
+  }
+  out.throw_if_conflicts();
+  end_upload(*writer_, out.result);
+  if (out.result.inserted > 0) record_change(*writer_, key, std::nullopt, out.result.upload_id);
+  tx.commit();
+  return out.result;
+}
+
+UploadResult SqliteStore::add_slopes(const std::string& site_id, const UploadMeta& meta,
+                                     const std::vector<SlopeRow>& rows) {
+  std::lock_guard lock(writer_mutex_);
+  Transaction tx(*writer_);
+  const auto key = site_key(*writer_, site_id);
+  Outcome out;
+  out.result.upload_id = begin_upload(*writer_, key, "slopes", meta);
+  out.result.received = meta.received;
+  out.result.rejected = meta.rejected;
+  auto insert = writer_->prepare(
+      "INSERT INTO slopes(upload_id, site_key, transect_id, slope, slope_sigma) VALUES(?, ?, ?, ?, ?) "
+      "ON CONFLICT(site_key, transect_id) WHERE live = 1 DO NOTHING");
+  auto existing =
+      writer_->prepare("SELECT slope, slope_sigma FROM slopes WHERE site_key = ? AND transect_id = ? AND live = 1");
+  std::set<std::string> touched;
+  for (const auto& r : rows) {
+    insert.bind(1, out.result.upload_id).bind(2, key).bind(3, r.transect_id).bind(4, r.slope).bind(5, r.slope_sigma);
+    insert.run();
+    insert.reset();
+    if (writer_->changes() > 0) {
+      ++out.result.inserted;
+      touched.insert(r.transect_id);
+      continue;
+    }
+    existing.bind(1, key).bind(2, r.transect_id);
+    existing.step();
+    const bool same = same_value(existing.real(0), r.slope) && same_value(existing.real(1), r.slope_sigma);
+    existing.reset();
+    if (same)
+      out.duplicate(r.line, r.transect_id);
+    else
+      out.conflict(r.line, r.transect_id, "slope", "a different slope is stored for transect " + r.transect_id +
+                                                       " (retract its upload first)");
+  }
+  out.throw_if_conflicts();
+  end_upload(*writer_, out.result);
+  for (const auto& t : touched) record_change(*writer_, key, t, out.result.upload_id);
+  tx.commit();
+  return out.result;
+}
+
+UploadResult SqliteStore::add_document(const std::string& site_id, const std::string& kind, const UploadMeta& meta,
+                                       const std::string& content) {
+  std::lock_guard lock(writer_mutex_);
+  Transaction tx(*writer_);
+  const auto key = site_key(*writer_, site_id);
+  UploadResult result;
+  result.received = 1;
+  {
+    auto q = writer_->prepare(
+        "SELECT u.id FROM uploads u JOIN documents d ON d.upload_id = u.id "
+        "WHERE u.site_key = ? AND u.kind = ? AND u.sha256 = ? AND d.live = 1");
+    q.bind(1, key).bind(2, kind).bind(3, meta.sha256);
+    if (q.step()) {
+      result.upload_id = q.integer(0);
+      result.duplicates = 1;
+      result.replay = true;
+      return result;  // nothing written; the transaction rolls back empty
+    }
+  }
+  // A new document replaces the live one of its kind for future runs; the old
+  // stays stored (retracted by supersession is not needed: latest live wins).
+  result.upload_id = begin_upload(*writer_, key, kind, meta);
+  writer_->prepare("INSERT INTO documents(upload_id, site_key, kind, content) VALUES(?, ?, ?, ?)")
+      .bind(1, result.upload_id)
+      .bind(2, key)
+      .bind(3, kind)
+      .bind(4, content)
+      .run();
+  result.inserted = 1;
+  end_upload(*writer_, result);
+  record_change(*writer_, key, std::nullopt, result.upload_id);
+  tx.commit();
+  return result;
+}
+
+// ---------------------------------------------------------------- listing, retraction
+
+namespace {
+constexpr const char* kUploadColumns =
+    "SELECT u.id, u.kind, u.received_at, u.uploaded_by, u.content_type, u.sha256, u.rows_received, "
+    "u.rows_inserted, u.rows_duplicate, u.rows_rejected, r.retracted_at, r.retracted_by, r.reason, r.purged_at "
+    "FROM uploads u LEFT JOIN retractions r ON r.upload_id = u.id ";
+
+UploadInfo read_upload(const Statement& q) {
+  UploadInfo u;
+  u.id = q.integer(0);
+  u.kind = q.text(1);
+  u.received_at = q.text(2);
+  u.uploaded_by = q.text(3);
+  u.content_type = q.text(4);
+  u.sha256 = q.text(5);
+  u.received = q.integer(6);
+  u.inserted = q.integer(7);
+  u.duplicates = q.integer(8);
+  u.rejected = q.integer(9);
+  if (!q.is_null(10)) u.retraction = Retraction{q.text(10), q.text(11), q.text(12)};
+  u.purged_at = q.optional_text(13);
+  return u;
+}
+}  // namespace
+
+std::vector<UploadInfo> SqliteStore::uploads(const std::string& site_id, std::int64_t before_id, int limit) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare(std::string(kUploadColumns) + "WHERE u.site_key = ? AND u.id < ? ORDER BY u.id DESC LIMIT ?");
+  q.bind(1, key).bind(2, before_id > 0 ? before_id : INT64_MAX).bind(3, limit);
+  std::vector<UploadInfo> out;
+  while (q.step()) out.push_back(read_upload(q));
+  return out;
+}
+
+std::optional<UploadInfo> SqliteStore::upload(const std::string& site_id, std::int64_t upload_id) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare(std::string(kUploadColumns) + "WHERE u.site_key = ? AND u.id = ?");
+  q.bind(1, key).bind(2, upload_id);
+  if (!q.step()) return std::nullopt;
+  return read_upload(q);
+}
+
+bool SqliteStore::retract_upload(const std::string& site_id, std::int64_t upload_id, const Retraction& r) {
+  std::lock_guard lock(writer_mutex_);
+  Transaction tx(*writer_);
+  const auto key = site_key(*writer_, site_id);
+  std::string kind;
+  {
+    auto q = writer_->prepare(
+        "SELECT u.kind, r.upload_id FROM uploads u LEFT JOIN retractions r ON r.upload_id = u.id "
+        "WHERE u.site_key = ? AND u.id = ?");
+    q.bind(1, key).bind(2, upload_id);
+    if (!q.step()) throw NotFound("upload " + std::to_string(upload_id) + " not found in site \"" + site_id + "\"");
+    if (!q.is_null(1)) return false;
+    kind = q.text(0);
+  }
+  writer_->prepare("INSERT INTO retractions(upload_id, retracted_at, retracted_by, reason) VALUES(?, ?, ?, ?)")
+      .bind(1, upload_id)
+      .bind(2, r.at.empty() ? now_utc_text() : r.at)
+      .bind(3, r.by)
+      .bind(4, r.reason)
+      .run();
+  const std::string table = table_of(kind);
+  if (table == "observations" || table == "slopes") {
+    std::vector<std::string> transects;
+    {
+      auto q = writer_->prepare("SELECT DISTINCT transect_id FROM " + table + " WHERE upload_id = ? AND live = 1");
+      q.bind(1, upload_id);
+      while (q.step()) transects.push_back(q.text(0));
+    }
+    for (const auto& t : transects) record_change(*writer_, key, t, upload_id);
+  } else {
+    record_change(*writer_, key, std::nullopt, upload_id);
+  }
+  writer_->prepare("UPDATE " + table + " SET live = 0 WHERE upload_id = ?").bind(1, upload_id).run();
+  tx.commit();
+  return true;
+}
+
+std::int64_t SqliteStore::purge_retracted(const std::string& site_id) {
+  std::lock_guard lock(writer_mutex_);
+  Transaction tx(*writer_);
+  const auto key = site_key(*writer_, site_id);
+  std::int64_t erased = 0;
+  for (const char* table : {"observations", "water_levels", "waves", "slopes", "documents"}) {
+    writer_
+        ->prepare(std::string("DELETE FROM ") + table +
+                  " WHERE live = 0 AND site_key = ? AND upload_id IN (SELECT upload_id FROM retractions)")
+        .bind(1, key)
+        .run();
+    erased += writer_->changes();
+  }
+  writer_
+      ->prepare(
+          "UPDATE retractions SET purged_at = ? WHERE purged_at IS NULL AND upload_id IN "
+          "(SELECT id FROM uploads WHERE site_key = ?)")
+      .bind(1, now_utc_text())
+      .bind(2, key)
+      .run();
+  tx.commit();
+  return erased;
+}
+
+// ---------------------------------------------------------------- live inputs
+
+std::vector<ObservationRow> SqliteStore::live_observations(const std::string& site_id,
+                                                           const std::set<std::string>& transects) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  std::vector<ObservationRow> out;
+  auto read_all = [&](Statement& q) {
+    while (q.step()) {
+      ObservationRow r;
+      r.line = q.integer(0);
+      r.transect_id = q.text(1);
+      r.image_id = q.text(2);
+      r.time_s = q.real(3);
+      r.chainage_m = q.real(4);
+      r.sensor = q.text(5);
+      r.cloud_fraction = q.real(6);
+      r.georef_rmse_m = q.real(7);
+      out.push_back(std::move(r));
+    }
+  };
+  const std::string columns =
+      "SELECT id, transect_id, image_id, time_s, chainage_m, sensor, cloud_fraction, georef_rmse_m FROM observations ";
+  if (transects.empty()) {
+    auto q = db->prepare(columns + "WHERE site_key = ? AND live = 1");
+    q.bind(1, key);
+    read_all(q);
+  } else {
+    auto q = db->prepare(columns + "WHERE site_key = ? AND transect_id = ? AND live = 1");
+    for (const auto& t : transects) {
+      q.bind(1, key).bind(2, t);
+      read_all(q);
+      q.reset();
+    }
+  }
+  return out;
+}
+
+std::vector<WaterLevelRow> SqliteStore::live_water_levels(const std::string& site_id) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare("SELECT id, time_s, level_m FROM water_levels WHERE site_key = ? AND live = 1 ORDER BY time_s");
+  q.bind(1, key);
+  std::vector<WaterLevelRow> out;
+  while (q.step()) out.push_back({q.integer(0), q.real(1), q.real(2)});
+  return out;
+}
+
+std::vector<WaveRow> SqliteStore::live_waves(const std::string& site_id) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare(
+      "SELECT id, time_s, hs_m, tp_s, dir_deg, depth_m FROM waves WHERE site_key = ? AND live = 1 ORDER BY time_s");
+  q.bind(1, key);
+  std::vector<WaveRow> out;
+  while (q.step()) out.push_back({q.integer(0), q.real(1), q.real(2), q.real(3), q.real(4), q.real(5)});
+  return out;
+}
+
+std::vector<SlopeRow> SqliteStore::live_slopes(const std::string& site_id) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare(
+      "SELECT id, transect_id, slope, slope_sigma FROM slopes WHERE site_key = ? AND live = 1 ORDER BY transect_id");
+  q.bind(1, key);
+  std::vector<SlopeRow> out;
+  while (q.step()) out.push_back({q.integer(0), q.text(1), q.real(2), q.real(3)});
+  return out;
+}
+
+std::optional<std::string> SqliteStore::live_document(const std::string& site_id, const std::string& kind) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare("SELECT content FROM documents WHERE site_key = ? AND kind = ? AND live = 1 ORDER BY id DESC LIMIT 1");
+  q.bind(1, key).bind(2, kind);
+  if (!q.step()) return std::nullopt;
+  return q.text(0);
+}
+
+std::int64_t SqliteStore::input_seq(const std::string& site_id) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare("SELECT COALESCE(MAX(seq), 0) FROM input_changes WHERE site_key = ?");
+  q.bind(1, key);
+  q.step();
+  return q.integer(0);
+}
+
+std::optional<std::set<std::string>> SqliteStore::changed_transects(const std::string& site_id, std::int64_t since) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto q = db->prepare("SELECT DISTINCT transect_id FROM input_changes WHERE site_key = ? AND seq > ?");
+  q.bind(1, key).bind(2, since);
+  std::set<std::string> out;
+  while (q.step()) {
+    if (q.is_null(0)) return std::nullopt;
+    out.insert(q.text(0));
+  }
+  return out;
+}
+
+}  // namespace strandline::store
