@@ -22,6 +22,8 @@ int run_serve(const CommandArgs& args);
 int run_keys(const CommandArgs& args);
 int run_intersect(const CommandArgs& args);
 int run_transects(const CommandArgs& args);
+int run_polylines(const CommandArgs& args);
+int run_geoexport(const CommandArgs& args);
 int run_runup(const CommandArgs& args);
 int run_tide_predict(const CommandArgs& args);
 int run_tide_fit(const CommandArgs& args);

@@ -1,6 +1,9 @@
 // Geodata subcommands: `intersect` (shoreline polylines x transects -> batch
-// observation CSV) and `transects` (shore-normal transects along a baseline).
+// observation CSV), `transects` (shore-normal transects along a baseline),
+// `polylines` (observations -> shoreline polylines, the inverse of intersect)
+// and `geoexport` (a cleaned CSV + summary -> GeoPackage/GeoJSON layers).
 #include <fstream>
+#include <sstream>
 #include <iostream>
 
 #include "corrections/core/errors.h"
@@ -8,8 +11,11 @@
 #include "server/cli/commands.h"
 #include "server/geo/baseline_transects.h"
 #include "server/geo/crossing_csv.h"
+#include "server/geo/observation_polylines.h"
+#include "server/geo/plain_table_io.h"
 #include "server/geo/shoreline_intersect.h"
 #include "server/geo/transect_reader.h"
+#include "server/io/observations_csv.h"
 #include "server/geo/result_writer.h"
 
 namespace strandline::cli {
@@ -158,6 +164,111 @@ int run_transects(const CommandArgs& argv) {
     std::cerr << "warning: " << made.crossing_neighbours
               << " pairs of neighbouring transects cross each other (baseline bends sharply for this length;"
                  " increase --smoothing or --spacing, or shorten --length)\n";
+  return kExitOk;
+}
+
+constexpr const char* kPolylinesHelp = R"(usage: strandline polylines --observations obs.csv --transects FILE --out lines.gpkg [options]
+
+Draws the per-transect positions of each image (batch observation CSV) as
+shoreline polylines: per image, a line through the positions on consecutive
+transects (transect file order), broken where a transect has no position; an
+isolated position becomes a short tick across its transect. `intersect` on the
+result gives the positions back.
+
+  --observations FILE     batch observation CSV (chainage_m = raw position)
+  --transects FILE        transects (see `strandline intersect --help`)
+  --transects-layer NAME  --transect-id-field N  --azimuth-field N  --length-field N  --crs CRS
+  --tick M                half length of a tick in metres (default 5)
+  --out FILE              .gpkg (work CRS) or .geojson (WGS 84 lon/lat); layer `shorelines`
+)";
+
+int run_polylines(const CommandArgs& argv) {
+  Args args(argv, {"help"});
+  if (args.flag("help")) {
+    std::cout << kPolylinesHelp;
+    return kExitOk;
+  }
+  const std::string obs_path = args.require("observations");
+  const std::string transects_path = args.require("transects");
+  const std::string out_path = args.require("out");
+  geo::TransectReadOptions topt = transect_options(args);
+  const double tick_m = args.number_or("tick", 5.0);
+  args.finish();
+  if (!geo::geo_format_for(out_path)) throw UsageError("--out " + out_path + ": use a .gpkg or .geojson file");
+  if (!(tick_m > 0)) throw UsageError("--tick must be positive");
+
+  const geo::TransectSet transects = geo::read_transects(transects_path, topt);
+  report_work_crs(transects.crs);
+  const ObservationFile obs = read_observations_file(obs_path, {});
+  const SiteTable& t = obs.table;
+  std::vector<geo::ImagePosition> positions(t.size());
+  for (std::size_t i = 0; i < t.size(); ++i)
+    positions[i] = {t.transects[t.transect[i]].id, t.image_ids[t.image[i]], t.time_s[i], t.sensor_names[t.sensor[i]],
+                    t.chainage_raw_m[i], t.cloud_fraction[i], t.georef_rmse_m[i]};
+  const auto r = geo::write_position_polylines(out_path, transects, positions, tick_m);
+  std::cerr << "images: " << r.images << "; polylines written: " << r.features << " (" << r.ticks
+            << " ticks for isolated positions) to " << out_path << "\n";
+  if (r.unknown_transects)
+    std::cerr << "warning: " << r.unknown_transects << " positions on transects not in " << transects_path
+              << " were left out\n";
+  return kExitOk;
+}
+
+constexpr const char* kGeoexportHelp = R"(usage: strandline geoexport --points cleaned.csv --transects FILE --out cleaned.gpkg [options]
+
+Writes corrected shoreline points as geometry (transect origin + chainage along
+the azimuth) with every column of the CSV, and the transects as lines carrying
+the per-transect summary.
+
+  --points FILE           CSV with transect_id and a chainage column (e.g. cleaned.csv)
+  --chainage-column NAME  position placed on the transect (default chainage_m)
+  --summary FILE          summary JSON of `strandline correct` (per-transect columns)
+  --transects FILE        transects (see `strandline intersect --help`)
+  --transects-layer NAME  --transect-id-field N  --azimuth-field N  --length-field N  --crs CRS
+  --out FILE              .gpkg: layers shoreline_points and transects in the work CRS;
+                          .geojson: WGS 84 lon/lat, transects in FILE_transects.geojson
+)";
+
+int run_geoexport(const CommandArgs& argv) {
+  Args args(argv, {"help"});
+  if (args.flag("help")) {
+    std::cout << kGeoexportHelp;
+    return kExitOk;
+  }
+  const std::string points_path = args.require("points");
+  const std::string transects_path = args.require("transects");
+  const std::string out_path = args.require("out");
+  const auto summary_path = args.get("summary");
+  geo::GeoLayers layers;
+  layers.chainage_column = args.get("chainage-column").value_or(layers.chainage_column);
+  geo::TransectReadOptions topt = transect_options(args);
+  args.finish();
+  if (!geo::geo_format_for(out_path)) throw UsageError("--out " + out_path + ": use a .gpkg or .geojson file");
+
+  const geo::TransectSet transects = geo::read_transects(transects_path, topt);
+  report_work_crs(transects.crs);
+  const geo::PlainTable points = geo::read_csv_plain_table(points_path);
+  if (!points.column(layers.transect_id_column) || !points.column(layers.chainage_column))
+    throw InputError(points_path + ": needs columns " + layers.transect_id_column + " and " + layers.chainage_column);
+  std::optional<geo::PlainTable> summary;
+  if (summary_path) {
+    std::ifstream in(*summary_path);
+    if (!in) throw InputError(*summary_path + ": cannot open");
+    nlohmann::json j;
+    try {
+      j = nlohmann::json::parse(in);
+    } catch (const nlohmann::json::parse_error& e) {
+      throw InputError(*summary_path + ": not JSON (" + e.what() + ")");
+    }
+    summary = geo::summary_plain_table(j, *summary_path);
+  }
+  layers.points = &points;
+  layers.transect_summary = summary ? &*summary : nullptr;
+  const auto r = geo::write_geo_layers(out_path, transects, layers);
+  std::cerr << "points: " << r.points << " (" << r.points_without_geometry
+            << " without geometry: unknown position or transect); transects: " << r.transects << "\nwritten:";
+  for (const auto& f : r.files) std::cerr << " " << f;
+  std::cerr << "\n";
   return kExitOk;
 }
 

@@ -6,6 +6,7 @@
 
 #include "corrections/core/errors.h"
 #include "server/geo/gdal_support.h"
+#include "server/geo/layer_sink.h"
 
 namespace strandline::geo {
 
@@ -61,66 +62,6 @@ std::string cell_text(const Cell& cell) {
   if (const auto* v = std::get_if<double>(&cell)) return known(*v) ? number_text(*v) : "";
   return "";
 }
-
-class LayerSink {
- public:
-  LayerSink(GeoFormat format, const std::string& path, const WorkCrs& work, std::vector<std::string>& files)
-      : format_(format), path_(path) {
-    ensure_gdal_registered();
-    const char* driver_name = format == GeoFormat::geopackage ? "GPKG" : "GeoJSON";
-    GDALDriver* driver = GetGDALDriverManager()->GetDriverByName(driver_name);
-    if (!driver) throw std::runtime_error(std::string("GDAL has no ") + driver_name + " driver");
-    std::error_code ec;
-    std::filesystem::remove(path, ec);
-    ds_.reset(driver->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
-    if (!ds_) throw InputError(path + ": cannot create (" + std::string(CPLGetLastErrorMsg()) + ")");
-    files.push_back(path);
-    work_srs_.importFromWkt(work.definition.c_str());
-    work_srs_.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
-    lon_lat_.importFromEPSG(4326);
-    lon_lat_.SetAxisMappingStrategy(OAMS_TRADITIONAL_GIS_ORDER);
-    if (format == GeoFormat::geojson)
-      to_lon_lat_.emplace(work.definition, "EPSG:4326", path + ": work CRS to longitude/latitude");
-    if (format == GeoFormat::geopackage) ds_->StartTransaction();
-  }
-
-  OGRLayer& create_layer(const std::string& name, OGRwkbGeometryType type) {
-    const char* gpkg_options[] = {"SPATIAL_INDEX=YES", nullptr};
-    // RFC 7946; 9 decimals of a degree is about 0.1 mm.
-    const char* json_options[] = {"RFC7946=YES", "COORDINATE_PRECISION=9", "WRITE_NAME=NO", nullptr};
-    OGRSpatialReference* srs = format_ == GeoFormat::geopackage ? &work_srs_ : &lon_lat_;
-    OGRLayer* layer = ds_->CreateLayer(name.c_str(), srs, type,
-                                       const_cast<char**>(format_ == GeoFormat::geopackage ? gpkg_options : json_options));
-    if (!layer) throw InputError(path_ + ": cannot create layer " + name + " (" + CPLGetLastErrorMsg() + ")");
-    return *layer;
-  }
-
-  XY place(XY work_xy) const { return to_lon_lat_ ? to_lon_lat_->apply(work_xy) : work_xy; }
-
-  void add(OGRLayer& layer, OGRFeature& f) {
-    if (layer.CreateFeature(&f) != OGRERR_NONE)
-      throw InputError(path_ + ": cannot write a feature to layer " + layer.GetName() + " (" + CPLGetLastErrorMsg() + ")");
-  }
-
-  void finish() {
-    if (format_ == GeoFormat::geopackage && ds_->CommitTransaction() != OGRERR_NONE)
-      throw InputError(path_ + ": cannot commit (" + std::string(CPLGetLastErrorMsg()) + ")");
-    GDALDataset* raw = ds_.release();
-    CPLErrorReset();
-    GDALClose(GDALDataset::ToHandle(raw));
-    if (CPLGetLastErrorType() == CE_Failure)
-      throw InputError(path_ + ": write failed (" + std::string(CPLGetLastErrorMsg()) + ")");
-  }
-
-  OGRSpatialReference* output_srs() { return format_ == GeoFormat::geopackage ? &work_srs_ : &lon_lat_; }
-
- private:
-  GeoFormat format_;
-  std::string path_;
-  DatasetPtr ds_;
-  OGRSpatialReference work_srs_, lon_lat_;
-  std::optional<CoordinateTransform> to_lon_lat_;
-};
 
 void add_fields(OGRLayer& layer, const std::vector<std::string>& names, const std::vector<OGRFieldType>& types,
                 const std::string& path) {

@@ -1,0 +1,37 @@
+// A new GeoPackage or GeoJSON file being written (internal to server/geo/):
+// GeoPackage layers in the work CRS inside one transaction, GeoJSON in WGS 84
+// longitude/latitude per RFC 7946 with coordinates transformed by PROJ.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "server/geo/gdal_support.h"
+#include "server/geo/result_writer.h"
+
+namespace strandline::geo {
+
+
+
+class LayerSink {
+ public:
+  // Replaces `path`; appends it to `files` once created.
+  LayerSink(GeoFormat format, const std::string& path, const WorkCrs& work, std::vector<std::string>& files);
+
+  OGRLayer& create_layer(const std::string& name, OGRwkbGeometryType type);
+  // Work-CRS coordinates to the file's CRS.
+  XY place(XY work_xy) const { return to_lon_lat_ ? to_lon_lat_->apply(work_xy) : work_xy; }
+  void add(OGRLayer& layer, OGRFeature& f);
+  // Commits and closes; throws InputError when the file cannot be completed.
+  void finish();
+
+ private:
+  GeoFormat format_;
+  std::string path_;
+  DatasetPtr ds_;
+  OGRSpatialReference work_srs_, lon_lat_;
+  std::optional<CoordinateTransform> to_lon_lat_;
+};
+
+}  // namespace strandline::geo
