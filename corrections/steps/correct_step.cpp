@@ -25,10 +25,10 @@ void CorrectStep::process(SiteTable& table, std::size_t transect, const RunInput
   for (std::size_t i = t.begin; i < t.end; ++i) {
     // Without a wave record the wave term is absent (column stays empty) and
     // contributes nothing; with one, a missing value was flagged upstream and the
-    // tide-only correction is kept with that warning.
+    // tide-only correction is kept with that warning. The wave_terms step writes
+    // wave_level_m (0 with `none`, empty without a sea state).
     double wave = 0.0;
     if (waves_given && known(table.wave_level_m[i])) wave = table.wave_level_m[i];
-    if (inputs.waves != nullptr && inputs.wave_correction == WaveCorrection::none) table.wave_level_m[i] = 0.0;
     const double shift = horizontal_correction_m(table.water_level_m[i], wave, t.z_ref_m, t.slope);
     if (!known(shift)) {
       log.count("uncorrected");

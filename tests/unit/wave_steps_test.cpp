@@ -183,21 +183,23 @@ TEST(WaveSteps, NearshoreRecordIsDeshoaled) {
 }
 
 TEST(WaveSteps, GapInWaveRecordFlagsAndLeavesTermsEmpty) {
-  auto s = make_scenario(false, 30.0);
-  run_steps(*s, WaveCorrection::setup);
-  const SiteTable& t = s->table;
-  int flagged = 0;
-  for (std::size_t i = 0; i < t.size(); ++i) {
-    if (!has_flag(t.flags[i], Flag::no_wave_data)) continue;
-    ++flagged;
-    for (double v : {t.hs0_m[i], t.l0_m[i], t.setup_m[i], t.runup_m[i], t.wave_level_m[i], t.wave_sigma_m[i],
-                     t.sigma_wave_m[i]})
-      EXPECT_FALSE(known(v));
-    // Tide-only correction kept, with the warning.
-    EXPECT_NEAR(t.chainage_m[i], t.chainage_raw_m[i] + (t.water_level_m[i] - kZref) / kSlope, 1e-9);
-    EXPECT_TRUE(t.accepted(i));
+  for (auto mode : {WaveCorrection::setup, WaveCorrection::none, WaveCorrection::runup}) {
+    auto s = make_scenario(false, 30.0);
+    run_steps(*s, mode);
+    const SiteTable& t = s->table;
+    int flagged = 0;
+    for (std::size_t i = 0; i < t.size(); ++i) {
+      if (!has_flag(t.flags[i], Flag::no_wave_data)) continue;
+      ++flagged;
+      for (double v : {t.hs0_m[i], t.l0_m[i], t.setup_m[i], t.runup_m[i], t.wave_level_m[i], t.wave_sigma_m[i],
+                       t.sigma_wave_m[i]})
+        EXPECT_FALSE(known(v));
+      // Tide-only correction kept, with the warning.
+      EXPECT_NEAR(t.chainage_m[i], t.chainage_raw_m[i] + (t.water_level_m[i] - kZref) / kSlope, 1e-9);
+      EXPECT_TRUE(t.accepted(i));
+    }
+    EXPECT_GE(flagged, 1) << wave_correction_name(mode);
   }
-  EXPECT_GE(flagged, 1);
 }
 
 TEST(WaveSteps, WithoutWaveRecordWaveColumnsStayEmpty) {
