@@ -3,11 +3,14 @@
 // with `none` the bias is the setup's horizontal term 0.35 sqrt(H0 L0).
 // Truth is computed here independently of the engine: deep-water records
 // (no deshoaling), the published Stockdon et al. (2006) coefficients written out.
+#include <algorithm>
 #include <cmath>
 #include <vector>
 
 #include <gtest/gtest.h>
 
+#include "corrections/core/errors.h"
+#include "corrections/engine/pipeline.h"
 #include "corrections/steps/correct_step.h"
 #include "corrections/steps/slope_step.h"
 #include "corrections/steps/water_level_step.h"
@@ -233,6 +236,40 @@ TEST(WaveSteps, UncertaintyCarriesScatterAndRunupSlopeSensitivity) {
   run_steps(*s, WaveCorrection::setup);
   for (std::size_t i = 0; i < t.size(); ++i)
     EXPECT_NEAR(t.sigma_slope_m[i], 0.005 * std::abs(t.water_level_m[i] - kZref) / (kSlope * kSlope), 1e-9);
+}
+
+}  // namespace
+}  // namespace strandline
+
+namespace strandline {
+namespace {
+
+TEST(WaveSteps, RegisteredAroundTheSlopeStep) {
+  const auto names = Pipeline::defaults().step_names();
+  auto position = [&](const std::string& n) { return std::find(names.begin(), names.end(), n) - names.begin(); };
+  ASSERT_LT(position("wave_conditions"), static_cast<long>(names.size()));
+  ASSERT_LT(position("wave_terms"), static_cast<long>(names.size()));
+  EXPECT_LT(position("water_level"), position("wave_conditions"));
+  EXPECT_LT(position("wave_conditions"), position("slope"));
+  EXPECT_LT(position("slope"), position("wave_terms"));
+  EXPECT_LT(position("wave_terms"), position("correct"));
+}
+
+TEST(WaveSteps, ParametersAreCheckedWithTheirPointer) {
+  try {
+    Pipeline::from_config({{"steps", {{"wave_terms", {{"runup_sigma_m", -1}}}}}});
+    FAIL() << "negative sigma accepted";
+  } catch (const ConfigError& e) {
+    EXPECT_EQ(e.pointer, "/steps/wave_terms/runup_sigma_m");
+  }
+  try {
+    Pipeline::from_config({{"steps", {{"wave_conditions", {{"max_gap_hours", 3}}}}}});
+    FAIL() << "unknown key accepted";
+  } catch (const ConfigError& e) {
+    EXPECT_EQ(e.pointer, "/steps/wave_conditions/max_gap_hours");
+  }
+  const Pipeline p = Pipeline::from_config({{"steps", {{"wave_conditions", {{"max_gap_s", 7200}}}}}});
+  EXPECT_EQ(p.config()["steps"]["wave_conditions"]["max_gap_s"], 7200.0);
 }
 
 }  // namespace
