@@ -1,27 +1,65 @@
 // Step `slope`: the beach-face slope of each transect from the run's SlopePlan:
 // a listed slope (--slopes / --transect-params), a slope for every transect
-// (--slope), or the default with a flag. Points of a transect without a slope
-// are flagged no_slope and stay uncorrected.
+// (--slope), the spectral estimate (--slope auto; corrections/spectral/
+// slope_search.h), or the default with a flag. Points of a transect without a
+// slope are flagged no_slope and stay uncorrected.
+//
+// With estimation, transects listed in per_transect keep their listed slope. The
+// estimate uses the transect's points that carry no rejecting flag yet and have a
+// water level; w = water level - z_ref. The wave term enters as the run applies
+// it: with `setup` as the slope-free horizontal term 0.35 sqrt(H0 L0) (closed
+// form), with `runup` through the grid + refine path with Stockdon R2% at each
+// candidate slope. Not identifiable: flag slope_not_identifiable, then the default
+// (flag default_slope) or no slope (flag no_slope).
 #pragma once
 
+#include <memory>
+
 #include "corrections/core/step.h"
+#include "corrections/spectral/slope_search.h"
 
 namespace strandline {
 
 class SlopeStep final : public TransectStep {
  public:
   struct Params {
-    void validate(const std::string&) const {}
+    // Spectrum grid (cycles per day): the published method's 1/400 .. 1/10 c/d.
+    double f_min_cpd = 1.0 / 400.0;
+    double f_max_cpd = 1.0 / 10.0;
+    long long n_frequencies = 4000;
+    double band_half_width_cpd = 8.64e-4;
+    double min_peak_to_median = 20.0;
+    long long min_images = 40;
+    double min_excursion_m = 10.0;
+    long long bootstrap_count = 200;
+    long long seed = 20261202;
+    double screen_k = 3.5;
+    long long screen_half_window = 5;
+    long long screen_passes = 2;
+    bool remove_seasonal = true;
+    double curve_step = 0.0025;
+    void validate(const std::string& pointer) const;
+    nlohmann::json to_json() const;
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit SlopeStep(const Params& p);
 
+  // The search options for one run's range (from the SlopePlan).
+  spectral::SlopeSearchOptions search_options(double tan_beta_min, double tan_beta_max) const;
+  const spectral::SlopeSearcher& searcher() const { return *searcher_; }
+
  private:
   void process(SiteTable& table, std::size_t transect, const RunInputs& inputs, StepLog& log) const override;
+  void estimate(SiteTable& table, std::size_t transect, const RunInputs& inputs, StepLog& log) const;
   Params p_;
+  std::shared_ptr<const spectral::SlopeSearcher> searcher_;  // FFT plan made once, shared by threads
 };
 
 // The slope a plan gives a transect without estimation, if any.
 std::optional<SlopeValue> planned_slope(const SlopePlan& plan, const std::string& transect_id);
+
+// A per-transect seed: the step's seed mixed with the transect id (FNV-1a), so
+// results do not depend on the order or the number of transects.
+std::uint64_t transect_seed(std::uint64_t seed, const std::string& transect_id);
 
 }  // namespace strandline
