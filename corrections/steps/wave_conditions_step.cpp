@@ -1,5 +1,7 @@
 #include "corrections/steps/wave_conditions_step.h"
 
+#include <cmath>
+
 #include "corrections/core/param_reader.h"
 #include "corrections/waves/linear_waves.h"
 
@@ -33,7 +35,10 @@ void WaveConditionsStep::process(SiteTable& table, std::size_t transect, const R
   const TransectInfo& t = table.transects[transect];
   for (std::size_t i = t.begin; i < t.end; ++i) {
     const auto sea = inputs.waves->at(table.time_s[i], p_.max_gap_s);
-    if (!sea || !known(sea->hs_m) || !(sea->tp_s > 0)) {
+    // A source outside the reader's checks (e.g. stored service data) may hand
+    // over non-physical values: treated as no sea state rather than a failure.
+    if (!sea || !(sea->hs_m >= 0) || !(sea->tp_s > 0) || !std::isfinite(sea->tp_s) ||
+        (known(sea->depth_m) && !(sea->depth_m > 0))) {
       table.add_flag(i, Flag::no_wave_data);
       log.count("no_wave_data");
       continue;
