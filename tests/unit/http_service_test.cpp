@@ -1,0 +1,415 @@
+// The HTTP service end to end: a real server on a loopback port, a real
+// client, every status code the service promises.
+#include <gtest/gtest.h>
+#include <unistd.h>
+
+#include <atomic>
+#include <filesystem>
+#include <sstream>
+#include <thread>
+
+#include <httplib.h>
+#include <nlohmann/json.hpp>
+
+#include "corrections/core/time_utc.h"
+#include "server/http/run_manager.h"
+#include "server/http/service.h"
+#include "server/store/api_keys.h"
+
+using namespace strandline;
+using nlohmann::json;
+
+namespace {
+
+// Two transects as GeoJSON lines in the site CRS (origin first).
+const char* kTransects = R"({"type":"FeatureCollection",
+ "crs":{"type":"name","properties":{"name":"urn:ogc:def:crs:EPSG::32631"}},
+ "features":[
+  {"type":"Feature","properties":{"transect_id":"T1"},"geometry":{"type":"LineString","coordinates":[[431000,5902000],[431000,5901600]]}},
+  {"type":"Feature","properties":{"transect_id":"T2"},"geometry":{"type":"LineString","coordinates":[[431100,5902000],[431100,5901600]]}}]})";
+
+std::string observations_csv(int images, double offset_m = 0) {
+  std::ostringstream out;
+  out << "transect_id,time,chainage_m,sensor,image_id,cloud_fraction\n";
+  for (int i = 0; i < images; ++i)
+    for (const char* t : {"T1", "T2"}) {
+      const std::string time = format_time_utc(1577872800.0 + 3600.0 * i);  // hourly from 2020-01-01T10:00Z
+      out << t << "," << time << "," << 150 + i * 0.5 + offset_m << ",sentinel2a,IMG" << i << ",0.1\n";
+    }
+  return out.str();
+}
+
+std::string water_levels_csv() {
+  std::ostringstream out;
+  out << "time,level_m\n";
+  for (int d = 1; d <= 3; ++d)
+    for (int h = 0; h < 24; ++h) {
+      char time[32];
+      std::snprintf(time, sizeof time, "2020-01-%02dT%02d:00:00Z", d, h);
+      out << time << "," << 0.5 * std::sin(h * 0.5) << "\n";
+    }
+  return out.str();
+}
+
+class HttpService : public ::testing::Test {
+ protected:
+  void start(http::ServiceOptions options = {}) {
+    dir_ = std::filesystem::temp_directory_path() /
+           ("strandline-http-" + std::to_string(getpid()) + "-" +
+            ::testing::UnitTest::GetInstance()->current_test_info()->name());
+    std::filesystem::remove_all(dir_);
+    std::filesystem::create_directories(dir_);
+    store_ = store::open_sqlite_store((dir_ / "service.db").string());
+    auto w = store::generate_api_key("writer", "write");
+    auto r = store::generate_api_key("reader", "read");
+    store_->add_key(w.record);
+    store_->add_key(r.record);
+    write_key_ = w.secret;
+    read_key_ = r.secret;
+    service_ = std::make_unique<http::Service>(*store_, options);
+    port_ = service_->bind("127.0.0.1", 0);
+    ASSERT_GT(port_, 0);
+    service_->start();
+  }
+  void TearDown() override {
+    if (service_) service_->stop();
+    service_.reset();
+    store_.reset();
+    std::filesystem::remove_all(dir_);
+  }
+  httplib::Client client() const {
+    httplib::Client c("127.0.0.1", port_);
+    c.set_read_timeout(60);
+    return c;
+  }
+  httplib::Headers auth(const std::string& key) const { return {{"Authorization", "Bearer " + key}}; }
+  httplib::Result post(const std::string& path, const std::string& body, const std::string& type,
+                       const std::string& key) {
+    return client().Post(path.c_str(), auth(key), body, type.c_str());
+  }
+  void create_demo_site() {
+    auto r = post("/v1/sites",
+                  R"({"id":"cove","name":"Invented Cove","crs":"EPSG:32631","reference_elevation_m":0.0,"default_slope":0.1})",
+                  "application/json", write_key_);
+    ASSERT_TRUE(r);
+    ASSERT_EQ(r->status, 201) << r->body;
+    auto t = client().Put("/v1/sites/cove/transects", auth(write_key_), kTransects, "application/json");
+    ASSERT_TRUE(t);
+    ASSERT_EQ(t->status, 200) << t->body;
+  }
+  json wait_for_run(std::int64_t run_id) {
+    for (int i = 0; i < 600; ++i) {
+      auto r = client().Get(("/v1/runs/" + std::to_string(run_id)).c_str());
+      EXPECT_TRUE(r && r->status == 200);
+      auto j = json::parse(r->body);
+      if (j["state"] == "done" || j["state"] == "failed") return j;
+      std::this_thread::sleep_for(std::chrono::milliseconds(50));
+    }
+    ADD_FAILURE() << "run did not finish";
+    return {};
+  }
+  static void expect_problem(const httplib::Result& r, int status, const std::string& type) {
+    ASSERT_TRUE(r);
+    EXPECT_EQ(r->status, status) << r->body;
+    EXPECT_EQ(r->get_header_value("Content-Type"), "application/problem+json");
+    auto j = json::parse(r->body);
+    EXPECT_EQ(j["type"], type);
+    EXPECT_EQ(j["status"], status);
+    EXPECT_TRUE(j.contains("detail"));
+  }
+
+  std::filesystem::path dir_;
+  std::unique_ptr<store::Store> store_;
+  std::unique_ptr<http::Service> service_;
+  std::string write_key_, read_key_;
+  int port_ = 0;
+};
+
+TEST_F(HttpService, HealthMetricsAndOpenApiCoverEveryRoute) {
+  start();
+  auto h = client().Get("/healthz");
+  ASSERT_TRUE(h);
+  EXPECT_EQ(h->status, 200);
+  EXPECT_EQ(json::parse(h->body)["status"], "ok");
+  auto doc = client().Get("/v1/openapi.json");
+  ASSERT_TRUE(doc && doc->status == 200);
+  const auto openapi = json::parse(doc->body);
+  EXPECT_EQ(openapi["openapi"].get<std::string>().substr(0, 2), "3.");
+  for (const auto& route : http::Service::routes()) {
+    std::string method = route.method;
+    for (auto& ch : method) ch = static_cast<char>(std::tolower(ch));
+    EXPECT_TRUE(openapi["paths"].contains(route.path) && openapi["paths"][route.path].contains(method))
+        << route.method << " " << route.path << " is not in the OpenAPI document";
+  }
+  auto m = client().Get("/metrics");
+  ASSERT_TRUE(m && m->status == 200);
+  EXPECT_NE(m->body.find("strandline_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1"),
+            std::string::npos)
+      << m->body;
+  EXPECT_NE(m->body.find("# TYPE strandline_http_request_duration_seconds histogram"), std::string::npos);
+}
+
+TEST_F(HttpService, WritesNeedAWriteKey) {
+  start();
+  const std::string site = R"({"id":"cove","name":"Cove","crs":"EPSG:32631"})";
+  expect_problem(client().Post("/v1/sites", site, "application/json"), 401, "/problems/unauthorized");
+  expect_problem(post("/v1/sites", site, "application/json", "sl_0000_bad"), 401, "/problems/unauthorized");
+  expect_problem(post("/v1/sites", site, "application/json", read_key_), 403, "/problems/forbidden");
+  auto ok = post("/v1/sites", site, "application/json", write_key_);
+  ASSERT_TRUE(ok);
+  EXPECT_EQ(ok->status, 201);
+  expect_problem(post("/v1/sites", site, "application/json", write_key_), 409, "/problems/already-exists");
+  // Reads are open by default.
+  auto list = client().Get("/v1/sites");
+  ASSERT_TRUE(list && list->status == 200);
+  EXPECT_EQ(json::parse(list->body)["items"][0]["id"], "cove");
+}
+
+TEST_F(HttpService, ReadKeyRequiredClosesReads) {
+  http::ServiceOptions options;
+  options.read_key_required = true;
+  start(options);
+  expect_problem(client().Get("/v1/sites"), 401, "/problems/unauthorized");
+  auto r = client().Get("/v1/sites", auth(read_key_));
+  ASSERT_TRUE(r);
+  EXPECT_EQ(r->status, 200);
+}
+
+TEST_F(HttpService, BadRequestsGetProblemTypes) {
+  start();
+  expect_problem(post("/v1/sites", "{not json", "application/json", write_key_), 400, "/problems/bad-json");
+  expect_problem(post("/v1/sites", "id=cove", "application/x-www-form-urlencoded", write_key_), 415,
+                 "/problems/unsupported-media-type");
+  auto schema = post("/v1/sites", R"({"id":"cove","name":"Cove","crs":"EPSG:32631","colour":"red"})",
+                     "application/json", write_key_);
+  expect_problem(schema, 422, "/problems/invalid-body");
+  EXPECT_EQ(json::parse(schema->body)["pointer"], "/colour");
+  expect_problem(post("/v1/sites", R"({"id":"c","name":"C","crs":"EPSG:4326"})", "application/json", write_key_), 422,
+                 "/problems/invalid-body");
+  expect_problem(client().Get("/v1/sites/nowhere"), 404, "/problems/not-found");
+  expect_problem(client().Get("/v1/no/such/route"), 404, "/problems/not-found");
+  expect_problem(client().Get("/v1/runs/12345"), 404, "/problems/not-found");
+}
+
+TEST_F(HttpService, ObservationUploadsAreAllOrNothingIdempotentAndConflictChecked) {
+  start();
+  create_demo_site();
+  const std::string csv = observations_csv(10);
+  auto first = post("/v1/sites/cove/observations", csv, "text/csv", write_key_);
+  ASSERT_TRUE(first);
+  ASSERT_EQ(first->status, 201) << first->body;
+  auto report = json::parse(first->body);
+  EXPECT_EQ(report["received"], 20);
+  EXPECT_EQ(report["inserted"], 20);
+  EXPECT_EQ(report["duplicates"], 0);
+
+  auto again = post("/v1/sites/cove/observations", csv, "text/csv", write_key_);
+  ASSERT_TRUE(again && again->status == 201);
+  EXPECT_EQ(json::parse(again->body)["inserted"], 0);
+  EXPECT_EQ(json::parse(again->body)["duplicates"], 20);
+
+  // Same (transect, image) with a different position: 409 naming it, nothing stored.
+  const std::string conflicting =
+      "transect_id,time,chainage_m,sensor,image_id\nT1,2020-02-01T00:00:00Z,1,sentinel2a,NEW\n"
+      "T1,2020-01-01T10:00:00Z,999,sentinel2a,IMG0\n";
+  auto conflict = post("/v1/sites/cove/observations", conflicting, "text/csv", write_key_);
+  expect_problem(conflict, 409, "/problems/conflict");
+  auto rows = json::parse(conflict->body)["rows"];
+  ASSERT_EQ(rows.size(), 1u);
+  EXPECT_EQ(rows[0]["line"], 3);
+  EXPECT_EQ(rows[0]["key"], "T1/IMG0");
+
+  // Two bad rows among good ones: 422 listing both, nothing stored.
+  const std::string bad =
+      "transect_id,time,chainage_m,sensor,image_id\n"
+      "T1,2020-03-01T00:00:00Z,10,sentinel2a,G1\n"
+      "T1,2020-03-02T00:00:00,10,sentinel2a,G2\n"     // no zone designator
+      "T9,2020-03-03T00:00:00Z,10,sentinel2a,G3\n"    // unknown transect
+      "T2,2020-03-04T00:00:00Z,10,sentinel2a,G4\n";
+  auto invalid = post("/v1/sites/cove/observations", bad, "text/csv", write_key_);
+  expect_problem(invalid, 422, "/problems/invalid-rows");
+  auto bad_rows = json::parse(invalid->body)["rows"];
+  ASSERT_EQ(bad_rows.size(), 2u);
+  EXPECT_EQ(bad_rows[0]["line"], 3);
+  EXPECT_EQ(bad_rows[0]["field"], "time");
+  EXPECT_EQ(bad_rows[1]["line"], 4);
+  EXPECT_EQ(bad_rows[1]["field"], "transect_id");
+  auto uploads = json::parse(client().Get("/v1/sites/cove/uploads")->body)["items"];
+  EXPECT_EQ(uploads.size(), 2u);  // the conflict and the 422 stored nothing
+
+  auto skipped = post("/v1/sites/cove/observations?on_invalid=skip", bad, "text/csv", write_key_);
+  ASSERT_TRUE(skipped && skipped->status == 201) << skipped->body;
+  auto skip_report = json::parse(skipped->body);
+  EXPECT_EQ(skip_report["inserted"], 2);
+  EXPECT_EQ(skip_report["rejected"], 2);
+
+  // JSON rows, same rules; errors point into the array.
+  const std::string json_rows =
+      R"({"observations":[{"transect_id":"T2","time":"2020-04-01T00:00:00Z","chainage_m":12.5,"sensor":"sentinel2a","image_id":"J1"},
+                          {"transect_id":"T2","time":"2020-04-02T00:00:00Z","chainage_m":"far","sensor":"sentinel2a","image_id":"J2"}]})";
+  auto json_invalid = post("/v1/sites/cove/observations", json_rows, "application/json", write_key_);
+  expect_problem(json_invalid, 422, "/problems/invalid-rows");
+  EXPECT_EQ(json::parse(json_invalid->body)["rows"][0]["pointer"], "/observations/1");
+  auto json_ok = post("/v1/sites/cove/observations?on_invalid=skip", json_rows, "application/json", write_key_);
+  ASSERT_TRUE(json_ok && json_ok->status == 201);
+  EXPECT_EQ(json::parse(json_ok->body)["inserted"], 1);
+
+  expect_problem(post("/v1/sites/cove/observations", csv, "text/plain", write_key_), 415,
+                 "/problems/unsupported-media-type");
+  expect_problem(post("/v1/sites/nowhere/observations", csv, "text/csv", write_key_), 404, "/problems/not-found");
+}
+
+TEST_F(HttpService, BodyLimitAnswers413) {
+  http::ServiceOptions options;
+  options.max_body_bytes = 64 * 1024;
+  start(options);
+  create_demo_site();
+  const std::string big = observations_csv(2000);
+  ASSERT_GT(big.size(), options.max_body_bytes);
+  expect_problem(post("/v1/sites/cove/observations", big, "text/csv", write_key_), 413, "/problems/payload-too-large");
+}
+
+TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
+  start();
+  create_demo_site();
+  ASSERT_EQ(post("/v1/sites/cove/observations", observations_csv(40), "text/csv", write_key_)->status, 201);
+  ASSERT_EQ(post("/v1/sites/cove/water-levels", water_levels_csv(), "text/csv", write_key_)->status, 201);
+
+  expect_problem(post("/v1/sites/cove/runs", R"({"steps":{"no_such_step":{}}})", "application/json", write_key_), 422,
+                 "/problems/invalid-run-options");
+  auto started = post("/v1/sites/cove/runs", "{}", "application/json", write_key_);
+  ASSERT_TRUE(started);
+  ASSERT_EQ(started->status, 202) << started->body;
+  const auto run_id = json::parse(started->body)["run_id"].get<std::int64_t>();
+  EXPECT_EQ(started->get_header_value("Location"), "/v1/runs/" + std::to_string(run_id));
+  auto run = wait_for_run(run_id);
+  ASSERT_EQ(run["state"], "done") << run.dump();
+  EXPECT_EQ(run["progress"]["transects_total"], 2);
+  EXPECT_EQ(run["progress"]["transects_done"], 2);
+  EXPECT_TRUE(run["provenance"].contains("config"));
+
+  auto series = client().Get("/v1/sites/cove/transects/T1/series?run=latest&format=json");
+  ASSERT_TRUE(series && series->status == 200);
+  auto body = json::parse(series->body);
+  ASSERT_EQ(body["rows"].size(), 40u);
+  // With the default slope 0.1 and z_ref 0 the correction is level / slope.
+  const auto& row = body["rows"][0];
+  ASSERT_TRUE(row["water_level_m"].is_number());
+  EXPECT_NEAR(row["correction_m"].get<double>(), row["water_level_m"].get<double>() / 0.1, 1e-6);
+  const std::string etag = series->get_header_value("ETag");
+  ASSERT_FALSE(etag.empty());
+  auto revalidated =
+      client().Get("/v1/sites/cove/transects/T1/series?format=json", httplib::Headers{{"If-None-Match", etag}});
+  ASSERT_TRUE(revalidated);
+  EXPECT_EQ(revalidated->status, 304);
+  auto csv = client().Get("/v1/sites/cove/transects/T1/series?format=csv");
+  ASSERT_TRUE(csv && csv->status == 200);
+  EXPECT_EQ(csv->body.substr(0, 17), "transect_id,time,");
+  expect_problem(client().Get("/v1/sites/cove/transects/T7/series"), 404, "/problems/not-found");
+  expect_problem(client().Get("/v1/sites/cove/transects/T1/series?format=xml"), 400, "/problems/bad-request");
+
+  auto changes = json::parse(client().Get("/v1/sites/cove/changes?since=0")->body);
+  ASSERT_EQ(changes["items"].size(), 2u);
+  const std::string cursor = changes["cursor"];
+  EXPECT_TRUE(json::parse(client().Get(("/v1/sites/cove/changes?since=" + cursor).c_str())->body)["items"].empty());
+
+  auto summary = client().Get("/v1/sites/cove/summary");
+  ASSERT_TRUE(summary && summary->status == 200);
+  EXPECT_EQ(json::parse(summary->body)["transects"].size(), 2u);
+
+  // New points on T2 only: the next default run covers T2 alone.
+  const std::string more = "transect_id,time,chainage_m,sensor,image_id\nT2,2020-01-02T12:00:00Z,170,sentinel2a,LATE\n";
+  ASSERT_EQ(post("/v1/sites/cove/observations", more, "text/csv", write_key_)->status, 201);
+  auto second = wait_for_run(json::parse(post("/v1/sites/cove/runs", "", "application/json", write_key_)->body)["run_id"]);
+  EXPECT_EQ(second["progress"]["transects_total"], 1);
+  auto after = json::parse(client().Get(("/v1/sites/cove/changes?since=" + cursor).c_str())->body);
+  ASSERT_EQ(after["items"].size(), 1u);
+  EXPECT_EQ(after["items"][0]["transect_id"], "T2");
+  // T1's latest series is still the first run's; T2's is the second's.
+  EXPECT_EQ(client().Get("/v1/sites/cove/transects/T1/series")->get_header_value("X-Run-Id"), std::to_string(run_id));
+  EXPECT_EQ(json::parse(client().Get("/v1/sites/cove/transects/T2/series")->body)["rows"].size(), 41u);
+}
+
+TEST_F(HttpService, RetractionTakesRowsOutOfFutureRuns) {
+  start();
+  create_demo_site();
+  ASSERT_EQ(post("/v1/sites/cove/water-levels", water_levels_csv(), "text/csv", write_key_)->status, 201);
+  ASSERT_EQ(post("/v1/sites/cove/observations", observations_csv(10), "text/csv", write_key_)->status, 201);
+  auto wrong = post("/v1/sites/cove/observations",
+                    "transect_id,time,chainage_m,sensor,image_id\nT1,2020-01-02T01:00:00Z,900,sentinel2a,WRONG\n",
+                    "text/csv", write_key_);
+  const auto upload_id = json::parse(wrong->body)["upload_id"].get<std::int64_t>();
+  const std::string path = "/v1/sites/cove/uploads/" + std::to_string(upload_id);
+  expect_problem(client().Delete(path.c_str(), auth(write_key_)), 422, "/problems/invalid-body");  // no reason
+  auto retracted = client().Delete((path + "?reason=mis-georeferenced").c_str(), auth(write_key_));
+  ASSERT_TRUE(retracted && retracted->status == 200) << retracted->body;
+  auto info = json::parse(retracted->body);
+  EXPECT_EQ(info["retraction"]["by"], "writer");
+  EXPECT_EQ(info["retraction"]["reason"], "mis-georeferenced");
+  expect_problem(client().Delete((path + "?reason=again").c_str(), auth(write_key_)), 409, "/problems/conflict");
+  expect_problem(client().Delete("/v1/sites/cove/uploads/999?reason=x", auth(write_key_)), 404, "/problems/not-found");
+  auto run = wait_for_run(json::parse(post("/v1/sites/cove/runs", "", "application/json", write_key_)->body)["run_id"]);
+  ASSERT_EQ(run["state"], "done");
+  auto rows = json::parse(client().Get("/v1/sites/cove/transects/T1/series")->body)["rows"];
+  EXPECT_EQ(rows.size(), 10u);
+  for (const auto& r : rows) EXPECT_NE(r["image_id"], "WRONG");
+  // Paging: one upload per page, newest first.
+  auto page1 = json::parse(client().Get("/v1/sites/cove/uploads?limit=1")->body);
+  ASSERT_EQ(page1["items"].size(), 1u);
+  EXPECT_EQ(page1["items"][0]["upload_id"], upload_id);
+  auto page2 = json::parse(
+      client().Get(("/v1/sites/cove/uploads?limit=1&cursor=" + page1["next_cursor"].get<std::string>()).c_str())->body);
+  ASSERT_EQ(page2["items"].size(), 1u);
+  EXPECT_LT(page2["items"][0]["upload_id"].get<std::int64_t>(), upload_id);
+}
+
+TEST_F(HttpService, OverloadAnswers503WithRetryAfter) {
+  http::ServiceOptions options;
+  options.max_concurrent_requests = 1;
+  options.http_threads = 16;
+  start(options);
+  create_demo_site();
+  const std::string csv = observations_csv(4000);
+  std::atomic<int> overloaded{0}, stored{0}, other{0};
+  std::atomic<bool> retry_after_seen{false};
+  for (int round = 0; round < 5 && overloaded == 0; ++round) {
+    std::vector<std::thread> clients;
+    for (int i = 0; i < 8; ++i)
+      clients.emplace_back([&] {
+        auto r = post("/v1/sites/cove/observations", csv, "text/csv", write_key_);
+        if (!r) return ++other, void();
+        if (r->status == 503) {
+          ++overloaded;
+          if (r->get_header_value("Retry-After") == "1") retry_after_seen = true;
+        } else if (r->status == 201) {
+          ++stored;
+        } else {
+          ++other;
+        }
+      });
+    for (auto& t : clients) t.join();
+  }
+  EXPECT_GT(overloaded.load(), 0);
+  EXPECT_TRUE(retry_after_seen.load());
+  EXPECT_GT(stored.load(), 0);
+  EXPECT_EQ(other.load(), 0);
+}
+
+TEST_F(HttpService, OtherUploadKinds) {
+  start();
+  create_demo_site();
+  auto waves = post("/v1/sites/cove/waves", "time,hs_m,tp_s,dir_deg\n2020-01-01T00:00:00Z,1.5,9,270\n2020-01-01T01:00:00Z,99,9,270\n",
+                    "text/csv", write_key_);
+  expect_problem(waves, 422, "/problems/invalid-rows");
+  EXPECT_EQ(json::parse(waves->body)["rows"][0]["field"], "hs_m");
+  auto slopes = post("/v1/sites/cove/slopes", R"([{"transect_id":"T1","slope":0.09,"slope_sigma":0.01}])",
+                     "application/json", write_key_);
+  ASSERT_TRUE(slopes);
+  EXPECT_EQ(slopes->status, 201) << slopes->body;
+  expect_problem(post("/v1/sites/cove/slopes", R"([{"transect_id":"T1","slope":0.05}])", "application/json", write_key_),
+                 409, "/problems/conflict");
+  expect_problem(post("/v1/sites/cove/tide-constituents", R"({"constituents":"nope"})", "application/json", write_key_),
+                 422, "/problems/invalid-body");
+}
+
+}  // namespace

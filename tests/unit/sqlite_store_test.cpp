@@ -1,0 +1,207 @@
+// The SQLite store: migrations, idempotent uploads, conflicts rolling back,
+// retraction and purge, incremental-run bookkeeping, results and changes, keys.
+#include <gtest/gtest.h>
+
+#include <filesystem>
+#include <unistd.h>
+
+#include "server/store/api_keys.h"
+#include "server/store/sqlite_connection.h"
+#include "server/store/sqlite_schema.h"
+#include "server/store/store.h"
+
+using namespace strandline;
+using namespace strandline::store;
+
+namespace {
+
+class StoreTest : public ::testing::Test {
+ protected:
+  void SetUp() override {
+    dir_ = std::filesystem::temp_directory_path() / ("strandline-store-" + std::to_string(getpid()) + "-" +
+                                                      ::testing::UnitTest::GetInstance()->current_test_info()->name());
+    std::filesystem::remove_all(dir_);
+    std::filesystem::create_directories(dir_);
+    path_ = (dir_ / "test.db").string();
+    store_ = open_sqlite_store(path_);
+    Site site;
+    site.id = "s1";
+    site.name = "Invented Cove";
+    site.crs = "EPSG:32631";
+    store_->create_site(site);
+    store_->replace_transects("s1", {{"T1", {0, 0, 90, 300}, {}}, {"T2", {0, 100, 90, 300}, {}}});
+  }
+  void TearDown() override {
+    store_.reset();
+    std::filesystem::remove_all(dir_);
+  }
+  static ObservationRow obs(const std::string& transect, const std::string& image, double chainage_m) {
+    return {2, transect, image, "landsat8", 1.6e9, chainage_m, 0.1, kUnknown};
+  }
+  static UploadMeta meta(std::int64_t received) {
+    UploadMeta m;
+    m.content_type = "text/csv";
+    m.sha256 = "x";
+    m.uploaded_by = "tester";
+    m.received = received;
+    return m;
+  }
+
+  std::filesystem::path dir_;
+  std::string path_;
+  std::unique_ptr<Store> store_;
+};
+
+TEST_F(StoreTest, MigratesOnceAndReopens) {
+  store_.reset();
+  Connection db(path_, false);
+  EXPECT_EQ(migrate_sqlite_schema(db), latest_sqlite_schema_version());
+  auto q = db.prepare("SELECT COUNT(*) FROM schema_migrations");
+  ASSERT_TRUE(q.step());
+  EXPECT_EQ(q.integer(0), latest_sqlite_schema_version());
+  auto mode = db.prepare("PRAGMA journal_mode");
+  ASSERT_TRUE(mode.step());
+  EXPECT_EQ(mode.text(0), "wal");
+  store_ = open_sqlite_store(path_);
+  EXPECT_TRUE(store_->site("s1").has_value());
+}
+
+TEST_F(StoreTest, DuplicateSiteIsRefused) {
+  Site again;
+  again.id = "s1";
+  again.name = "x";
+  again.crs = "EPSG:32631";
+  EXPECT_THROW(store_->create_site(again), AlreadyExists);
+}
+
+TEST_F(StoreTest, ResentRowsAreDuplicatesAndChangeNothing) {
+  const std::vector<ObservationRow> rows = {obs("T1", "A", 100), obs("T1", "B", 101), obs("T2", "A", 90)};
+  auto first = store_->add_observations("s1", meta(3), rows);
+  EXPECT_EQ(first.inserted, 3);
+  EXPECT_EQ(first.duplicates, 0);
+  auto second = store_->add_observations("s1", meta(3), rows);
+  EXPECT_EQ(second.inserted, 0);
+  EXPECT_EQ(second.duplicates, 3);
+  EXPECT_EQ(store_->live_observations("s1", {}).size(), 3u);
+}
+
+TEST_F(StoreTest, ConflictRollsBackTheWholeUpload) {
+  store_->add_observations("s1", meta(1), {obs("T1", "A", 100)});
+  const auto uploads_before = store_->uploads("s1", 0, 100).size();
+  // One new row and one contradicting the stored (T1, A): nothing may be stored.
+  try {
+    store_->add_observations("s1", meta(2), {obs("T2", "Z", 50), obs("T1", "A", 100.5)});
+    FAIL() << "expected a conflict";
+  } catch (const ConflictError& e) {
+    ASSERT_EQ(e.rows.size(), 1u);
+    EXPECT_EQ(e.rows[0].key, "T1/A");
+    EXPECT_EQ(e.rows[0].field, "chainage_m");
+  }
+  EXPECT_EQ(store_->live_observations("s1", {}).size(), 1u);
+  EXPECT_EQ(store_->uploads("s1", 0, 100).size(), uploads_before);
+}
+
+TEST_F(StoreTest, RetractionHidesRowsRecordsWhoAndPurgeErases) {
+  auto up = store_->add_observations("s1", meta(2), {obs("T1", "A", 100), obs("T1", "B", 101)});
+  ASSERT_TRUE(store_->retract_upload("s1", up.upload_id, {"2026-01-01T00:00:00Z", "alice", "wrong georeference"}));
+  EXPECT_FALSE(store_->retract_upload("s1", up.upload_id, {"", "alice", "again"}));
+  EXPECT_TRUE(store_->live_observations("s1", {}).empty());
+  const auto info = store_->upload("s1", up.upload_id);
+  ASSERT_TRUE(info && info->retraction);
+  EXPECT_EQ(info->retraction->by, "alice");
+  EXPECT_EQ(info->retraction->reason, "wrong georeference");
+  EXPECT_EQ(info->inserted, 2);  // the upload record itself is unchanged
+  // The same rows may be stored again after a retraction (a corrected upload).
+  EXPECT_EQ(store_->add_observations("s1", meta(1), {obs("T1", "A", 99)}).inserted, 1);
+  EXPECT_EQ(store_->purge_retracted("s1"), 2);
+  EXPECT_TRUE(store_->upload("s1", up.upload_id)->purged_at.has_value());
+  EXPECT_EQ(store_->live_observations("s1", {}).size(), 1u);
+  EXPECT_THROW(store_->retract_upload("s1", 9999, {"", "a", "b"}), NotFound);
+}
+
+TEST_F(StoreTest, ChangedTransectsFollowUploadsAndSiteWideInputs) {
+  const auto seq0 = store_->input_seq("s1");
+  store_->add_observations("s1", meta(1), {obs("T2", "A", 10)});
+  auto changed = store_->changed_transects("s1", seq0);
+  ASSERT_TRUE(changed.has_value());
+  EXPECT_EQ(*changed, (std::set<std::string>{"T2"}));
+  const auto seq1 = store_->input_seq("s1");
+  EXPECT_TRUE(store_->changed_transects("s1", seq1)->empty());
+  // A resent (duplicate-only) upload changes nothing.
+  store_->add_observations("s1", meta(1), {obs("T2", "A", 10)});
+  EXPECT_TRUE(store_->changed_transects("s1", seq1)->empty());
+  // A water-level record affects every transect.
+  store_->add_water_levels("s1", meta(1), {{2, 1.6e9, 0.4}});
+  EXPECT_FALSE(store_->changed_transects("s1", seq1).has_value());
+}
+
+TEST_F(StoreTest, SeriesIdempotentByTimeWithConflicts) {
+  EXPECT_EQ(store_->add_water_levels("s1", meta(2), {{2, 100, 0.5}, {3, 200, 0.6}}).inserted, 2);
+  auto again = store_->add_water_levels("s1", meta(1), {{2, 100, 0.5}});
+  EXPECT_EQ(again.duplicates, 1);
+  EXPECT_THROW(store_->add_water_levels("s1", meta(1), {{2, 200, 0.7}}), ConflictError);
+  EXPECT_EQ(store_->live_water_levels("s1").size(), 2u);
+}
+
+TEST_F(StoreTest, DocumentsAreIdempotentByContentHash) {
+  UploadMeta m = meta(1);
+  m.sha256 = "abc";
+  auto first = store_->add_document("s1", "tide_constituents", m, "{}");
+  EXPECT_FALSE(first.replay);
+  auto second = store_->add_document("s1", "tide_constituents", m, "{}");
+  EXPECT_TRUE(second.replay);
+  EXPECT_EQ(second.upload_id, first.upload_id);
+  EXPECT_EQ(store_->uploads("s1", 0, 100).size(), 1u);
+}
+
+TEST_F(StoreTest, ResultsAreVersionedByRunAndChangesSkipIdenticalResults) {
+  RunInfo run;
+  run.site_id = "s1";
+  run.scope = "all";
+  const auto r1 = store_->create_run(run);
+  store_->mark_run_started(r1, 2);
+  store_->finish_run(r1, {{"k", 1}}, {{0, r1, "T1", "[1]", "a\n1\n", {}, "h1"}, {0, r1, "T2", "[2]", "a\n2\n", {}, "h2"}});
+  const auto r2 = store_->create_run(run);
+  store_->finish_run(r2, {}, {{0, r2, "T1", "[1]", "a\n1\n", {}, "h1"}, {0, r2, "T2", "[3]", "a\n3\n", {}, "h3"}});
+  EXPECT_EQ(store_->result("s1", "T2", 0)->rows_json, "[3]");
+  EXPECT_EQ(store_->result("s1", "T2", r1)->rows_json, "[2]");
+  EXPECT_EQ(store_->run(r1)->state, "done");
+  const auto all = store_->changes("s1", 0, 100);
+  ASSERT_EQ(all.size(), 3u);  // T1 and T2 of run 1, T2 of run 2 (T1 unchanged in run 2)
+  const auto after_first = store_->changes("s1", all[1].seq, 100);
+  ASSERT_EQ(after_first.size(), 1u);
+  EXPECT_EQ(after_first[0].transect_id, "T2");
+  EXPECT_EQ(after_first[0].run_id, r2);
+  EXPECT_EQ(store_->latest_done_run("s1")->id, r2);
+}
+
+TEST_F(StoreTest, InterruptedRunsBecomeFailed) {
+  RunInfo run;
+  run.site_id = "s1";
+  run.scope = "all";
+  const auto id = store_->create_run(run);
+  EXPECT_EQ(store_->fail_interrupted_runs(), 1);
+  EXPECT_EQ(store_->run(id)->state, "failed");
+}
+
+TEST_F(StoreTest, KeysAreStoredHashedAndVerified) {
+  const auto key = generate_api_key("pipeline", "write");
+  store_->add_key(key.record);
+  EXPECT_THROW(store_->add_key(generate_api_key("pipeline", "read").record), AlreadyExists);
+  for (const auto& k : store_->keys()) EXPECT_EQ(k.hash_hex.find(key.secret), std::string::npos);
+  EXPECT_EQ(store_->keys()[0].hash_hex, sha256_hex(key.secret));
+  ASSERT_TRUE(verify_api_key(*store_, key.secret).has_value());
+  std::string wrong = key.secret;
+  wrong.back() = wrong.back() == 'a' ? 'b' : 'a';
+  EXPECT_FALSE(verify_api_key(*store_, wrong).has_value());
+  EXPECT_FALSE(verify_api_key(*store_, "not-a-key").has_value());
+  EXPECT_TRUE(store_->revoke_key("pipeline"));
+  EXPECT_FALSE(verify_api_key(*store_, key.secret).has_value());
+}
+
+// FIPS 180-2 test vector (SHA-256 of "abc").
+TEST(ApiKeyHash, MatchesThePublishedSha256Vector) {
+  EXPECT_EQ(sha256_hex("abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+}
+
+}  // namespace
