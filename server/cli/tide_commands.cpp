@@ -139,9 +139,9 @@ int run_tide_fit(const CommandArgs& argv) {
   const tide::HarmonicFitResult fit = tide::fit_harmonics(gauge.times(), gauge.levels(), options, gauge_path);
   tide::write_constituent_file(fit.constants, out_path);
 
-  std::fprintf(stderr, "%s: %zu samples over %.1f days; %zu constituents fitted, %zu not resolvable; residual std %.4f m\n",
+  std::fprintf(stderr, "%s: %zu samples over %.1f days; %zu constituents fitted, %zu not resolvable; residual std %.2f mm\n",
                gauge_path.c_str(), fit.samples, fit.span_days, fit.constants.constituents.size(), fit.unresolved.size(),
-               fit.constants.residual_std_m);
+               fit.constants.residual_std_m * 1000.0);
   for (const auto& u : fit.unresolved) {
     if (std::isfinite(u.needed_days))
       std::fprintf(stderr, "  %s not resolvable from %s (needs %.1f days)\n", u.name.c_str(), u.conflicts_with.c_str(),
