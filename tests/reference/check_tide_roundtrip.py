@@ -78,7 +78,7 @@ def main():
     print(f"z0: truth {Z0_M:.4f} fit {fit['z0_m']:.4f}; residual std {fit['residual_std_m'] * 1000:.3f} mm")
     if abs(fit["z0_m"] - Z0_M) > 0.001:
         failures += 1
-    print(f"{'name':8s} {'H_true_m':>9s} {'H_fit_m':>9s} {"dH_mm":>8s} {'dg_deg':>7s} {'se_H_mm':>8s}")
+    print(f"{'name':8s} {'H_true_m':>9s} {'H_fit_m':>9s} {'dH_mm':>8s} {'dg_deg':>7s} {'se_H_mm':>8s}")
     for c in truth:
         got = fitted.get(c["name"])
         if got is None:
