@@ -12,10 +12,12 @@
 #include "corrections/core/errors.h"
 #include "qc/summary.h"
 #include "server/cli/batch_inputs.h"
+#include "server/cli/cleaned_geodata.h"
 #include "server/cli/commands.h"
 #include "server/cli/wave_inputs.h"
 #include "server/io/atomic_file.h"
 #include "server/io/cleaned_rows.h"
+#include "server/geo/result_writer.h"
 
 namespace strandline::cli {
 
@@ -43,8 +45,10 @@ int run_correct(const CommandArgs& argv) {
   Args args(argv, {"skip-invalid", "help", "quiet"});
   if (args.flag("help")) {
     std::cout << kHelp << batch_options_help() << wave_options_help()
-              << "  --out FILE                 cleaned rows (CSV)\n"
+              << "  --out FILE                 cleaned rows: CSV, or .gpkg/.geojson layers (needs --transects)\n"
+                 "  --transects FILE           transect geometry (lines or points; see `strandline intersect --help`)\n"
                  "  --summary FILE             per-transect summary JSON with provenance\n"
+                 "  --trend-from TIME, --trend-to TIME  window of the summary's trend and seasonal fit (UTC)\n"
                  "  --skip-invalid             write bad rows to --rejected and go on (default: stop at the first)\n"
                  "  --rejected FILE            rejected rows with reasons (default: OUT stem + .rejected.csv)\n"
                  "  --quiet                    no progress on the terminal\n";
@@ -55,7 +59,17 @@ int run_correct(const CommandArgs& argv) {
   const bool quiet = args.flag("quiet");
   const std::string out_path = args.require("out");
   const auto summary_path = args.get("summary");
+  SummaryOptions summary_options;
+  for (auto [name, field] : {std::pair{"trend-from", &summary_options.trend_from_s}, {"trend-to", &summary_options.trend_to_s}})
+    if (auto v = args.get(name)) try {
+        *field = parse_time_utc(*v);
+      } catch (const FieldError& e) {
+        throw UsageError(std::string("--") + name + " \"" + *v + "\": " + e.what());
+      }
   auto rejected_path = args.get("rejected");
+  const auto transects_path = args.get("transects");
+  const bool geodata_out = geo::geo_format_for(out_path).has_value();
+  if (geodata_out && !transects_path) throw UsageError("--out " + out_path + ": GeoPackage/GeoJSON output needs --transects");
   if (rejected_path && !skip_invalid) throw UsageError("option --rejected goes with --skip-invalid");
   if (skip_invalid && !rejected_path) rejected_path = default_rejected_path(out_path);
 
@@ -65,6 +79,8 @@ int run_correct(const CommandArgs& argv) {
   check_slope_coverage(batch);
 
   SiteTable& table = batch.observations.table;
+  std::optional<geo::TransectSet> transects;
+  if (transects_path) transects = attach_transect_geometry(*transects_path, table);
   const bool show_progress = !quiet && ::isatty(STDERR_FILENO);
   const ProgressFn progress = [&](std::size_t done, std::size_t total) {
     if (show_progress && (done == total || done % 50 == 0))
@@ -74,12 +90,16 @@ int run_correct(const CommandArgs& argv) {
   if (show_progress) std::fprintf(stderr, "\n");
 
   CleanedRowStream rows(batch.observations_path, batch.observations, table);
-  write_cleaned_csv(rows, out_path, rejected_path ? *rejected_path : "");
+  if (geodata_out)
+    write_cleaned_geodata(rows, *transects, site_summary(table, batch.inputs, summary_options), out_path,
+                          rejected_path ? *rejected_path : "");
+  else
+    write_cleaned_csv(rows, out_path, rejected_path ? *rejected_path : "");
 
   std::size_t accepted = 0;
   for (std::size_t i = 0; i < table.size(); ++i) accepted += table.accepted(i) ? 1 : 0;
   if (summary_path) {
-    nlohmann::json summary = site_summary(table, batch.inputs, SummaryOptions{});
+    nlohmann::json summary = site_summary(table, batch.inputs, summary_options);
     summary["provenance"] = {{"version", STRANDLINE_VERSION},
                              {"command", "correct"},
                              {"parameters", batch.parameters},

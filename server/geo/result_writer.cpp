@@ -19,7 +19,7 @@ std::optional<std::size_t> PlainTable::column(const std::string& name) const {
 std::optional<GeoFormat> geo_format_for(const std::string& path) {
   const std::string ext = std::filesystem::path(path).extension().string();
   if (ext == ".gpkg") return GeoFormat::geopackage;
-  if (ext == ".geojson" || ext == ".json") return GeoFormat::geojson;
+  if (ext == ".geojson") return GeoFormat::geojson;
   return std::nullopt;
 }
 

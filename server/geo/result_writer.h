@@ -29,7 +29,7 @@ struct PlainTable {
 };
 
 enum class GeoFormat { geopackage, geojson };
-// From the file extension (.gpkg, .geojson, .json); nullopt for anything else.
+// From the file extension (.gpkg, .geojson); nullopt for anything else.
 std::optional<GeoFormat> geo_format_for(const std::string& path);
 
 struct GeoLayers {
