@@ -5,7 +5,11 @@
 #include "corrections/core/errors.h"
 #include "corrections/steps/slope_step.h"
 #include "corrections/steps/water_level_step.h"
+#include "corrections/tide/constituent_file.h"
+#include "corrections/tide/harmonic_tide_source.h"
+#include "corrections/water_level/blended_water_level_source.h"
 #include "server/io/file_digest.h"
+#include "server/io/slopes_json.h"
 #include "server/io/transect_params_csv.h"
 #include "server/io/water_level_csv.h"
 
@@ -39,15 +43,38 @@ SlopeValue slope_option(Args& args, const std::string& name, const std::string& 
   return v;
 }
 
+// --slope-range MIN:MAX, the search range of the spectral estimate.
+void read_slope_range(Args& args, SlopePlan& plan, nlohmann::json& parameters) {
+  const auto text = args.get("slope-range");
+  if (!text) return;
+  if (!plan.estimate) throw UsageError("option --slope-range goes with --slope auto");
+  const auto colon = text->find(':');
+  if (colon == std::string::npos) throw UsageError("option --slope-range \"" + *text + "\": expected MIN:MAX, e.g. 0.01:0.2");
+  try {
+    plan.search_min = parse_number(text->substr(0, colon));
+    plan.search_max = parse_number(text->substr(colon + 1));
+  } catch (const FieldError& e) {
+    throw UsageError("option --slope-range \"" + *text + "\": " + e.what());
+  }
+  for (double v : {plan.search_min, plan.search_max})
+    if (auto why = slope_problem(v)) throw UsageError("option --slope-range \"" + *text + "\": " + *why);
+  if (!(plan.search_min < plan.search_max))
+    throw UsageError("option --slope-range \"" + *text + "\": MIN must be below MAX");
+  parameters["slope_range"] = {plan.search_min, plan.search_max};
+}
+
 }  // namespace
 
 std::string batch_options_help() {
   return "  --observations FILE        raw observations CSV (transect_id,time,chainage_m,sensor,image_id[,...])\n"
          "  --water-levels FILE        water-level record CSV (time,level_m) on the site datum\n"
+         "  --tide-constituents FILE   harmonic constants JSON: predicted tide, alone or where the gauge has none\n"
          "  --reference-elevation M    reference contour z_ref in metres on the datum (default 0)\n"
          "  --slope VALUE|auto         tan(beta) for every transect, or estimate it (auto)\n"
          "  --slope-sigma VALUE        1-sigma of a --slope VALUE\n"
-         "  --slopes FILE              per-transect slopes (CSV transect_id,slope[,slope_sigma])\n"
+         "  --slope-range MIN:MAX      tan(beta) search range of --slope auto (default 0.01:0.2)\n"
+         "  --slopes FILE              per-transect slopes (CSV transect_id,slope[,slope_sigma], or the\n"
+         "                             .json of `strandline slope`); with auto, listed transects keep them\n"
          "  --transect-params FILE     per-transect slope, slope_sigma, z_ref_m (CSV)\n"
          "  --default-slope VALUE      slope for transects not listed (flagged default_slope)\n"
          "  --default-slope-sigma V    1-sigma of the default slope\n"
@@ -78,11 +105,9 @@ BatchInputs load_batch_inputs(Args& args, const BatchOptions& options) {
   SlopePlan& plan = b.inputs.slopes;
   const auto slope_text = args.get("slope");
   const bool slope_auto = slope_text && *slope_text == "auto";
-  if (slope_auto) {
-    throw UsageError("--slope auto (the spectral slope estimate) is not available in this build; "
-                     "give --slope VALUE, --slopes FILE or --default-slope VALUE");
-  }
-  if (slope_text) {
+  if (slope_auto) plan.estimate = true;
+  read_slope_range(args, plan, b.parameters);
+  if (slope_text && !slope_auto) {
     plan.all = slope_option(args, "slope", "slope-sigma");
     b.parameters["slope"] = plan.all->slope;
   } else if (args.get("slope-sigma")) {
@@ -90,7 +115,8 @@ BatchInputs load_batch_inputs(Args& args, const BatchOptions& options) {
   }
   if (auto path = args.get("slopes")) {
     if (plan.all) throw UsageError("give either --slope VALUE (one slope for every transect) or --slopes FILE, not both");
-    plan.per_transect = read_transect_params_file(*path, true).slopes;
+    plan.per_transect = is_slopes_json_path(*path) ? read_slopes_json_file(*path)
+                                                   : read_transect_params_file(*path, true).slopes;
     b.record_file("slopes", *path);
   }
   if (auto path = args.get("transect-params")) {
@@ -113,13 +139,21 @@ BatchInputs load_batch_inputs(Args& args, const BatchOptions& options) {
   // ---- water levels
   const auto* wl_step = dynamic_cast<const WaterLevelStep*>(b.pipeline.find("water_level"));
   const double gauge_sigma = wl_step ? wl_step->params().sigma_m : WaterLevelStep::Params{}.sigma_m;
+  const GaugeSeries* gauge = nullptr;
   if (auto path = args.get("water-levels")) {
     b.water_level_sources.push_back(std::make_unique<GaugeSeries>(read_water_levels_file(*path, gauge_sigma)));
-    b.inputs.water_levels = b.water_level_sources.back().get();
+    gauge = static_cast<const GaugeSeries*>(b.water_level_sources.back().get());
+    b.inputs.water_levels = gauge;
     b.record_file("water_levels", *path);
   }
+  if (auto path = args.get("tide-constituents")) {  // alone, or where the gauge has no data
+    b.water_level_sources.push_back(std::make_unique<tide::HarmonicTideSource>(tide::read_constituent_file(*path), *path));
+    if (gauge) b.water_level_sources.push_back(std::make_unique<BlendedWaterLevelSource>(*gauge, *b.water_level_sources.back()));
+    b.inputs.water_levels = b.water_level_sources.back().get();
+    b.record_file("tide_constituents", *path);
+  }
   if (!b.inputs.water_levels)
-    throw UsageError("no water levels: give --water-levels FILE");
+    throw UsageError("no water levels: give --water-levels FILE and/or --tide-constituents FILE");
 
   // ---- observations (largest file last, after every cheap check)
   b.observations_path = args.require("observations");
