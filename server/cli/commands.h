@@ -18,6 +18,7 @@ struct Command {
 };
 
 int run_correct(const CommandArgs& args);
+int run_slope(const CommandArgs& args);
 int run_serve(const CommandArgs& args);
 int run_keys(const CommandArgs& args);
 int run_intersect(const CommandArgs& args);

@@ -14,6 +14,7 @@ using strandline::cli::Command;
 const Command kCommands[] = {
     {"correct", "correct raw shoreline positions for water level, waves and slope; QC; summary",
      strandline::cli::run_correct},
+    {"slope", "estimate beach-face slopes from the data (spectral method) as slopes.json", strandline::cli::run_slope},
     {"intersect", "intersect shoreline polylines with transects into the batch observation CSV",
      strandline::cli::run_intersect},
     {"transects", "generate shore-normal transects along a baseline polyline", strandline::cli::run_transects},

@@ -1,0 +1,93 @@
+// `strandline slope`: the spectral beach-slope estimate of every transect
+// (corrections/spectral/slope_search.h) written as slopes.json: slope, 95%
+// interval, tidal band, energy curve, images used, verdict with reasons. The
+// same engine as `correct --slope auto`: the pipeline runs with estimation on
+// and the slope step's results are written; `correct --slopes slopes.json`
+// reads them back.
+#include <unistd.h>
+
+#include <chrono>
+#include <cstdio>
+#include <iostream>
+
+#include "corrections/core/errors.h"
+#include "server/cli/batch_inputs.h"
+#include "server/cli/commands.h"
+#include "server/cli/wave_inputs.h"
+#include "server/io/atomic_file.h"
+#include "server/io/slopes_json.h"
+
+namespace strandline::cli {
+
+namespace {
+
+const char* kHelp =
+    "usage: strandline slope --observations FILE --water-levels FILE --out slopes.json\n"
+    "                        [--slope-range 0.01:0.2] [--config FILE] [options]\n\n"
+    "Estimates the beach-face slope of every transect from the data (the tide correction that leaves\n"
+    "the least energy in the aliased tidal band; Vos et al. 2020) with a bootstrap 95% interval and a\n"
+    "verdict. Transects listed in --slopes keep their listed slope. Slope-step parameters (band width,\n"
+    "bootstrap count, seed, minimum images, ...) go in --config under /steps/slope.\n\noptions:\n";
+
+}  // namespace
+
+int run_slope(const CommandArgs& argv) {
+  Args args(argv, {"skip-invalid", "help", "quiet"});
+  if (args.flag("help")) {
+    std::cout << kHelp << batch_options_help() << wave_options_help()
+              << "  --out FILE                 slopes JSON (see the formats reference, \"Slopes JSON\")\n"
+                 "  --skip-invalid             skip bad observation rows (default: stop at the first)\n"
+                 "  --quiet                    no progress on the terminal\n";
+    return kExitOk;
+  }
+  const bool quiet = args.flag("quiet");
+  const std::string out_path = args.require("out");
+  if (auto slope = args.get("slope"); slope && *slope != "auto")
+    throw UsageError("strandline slope estimates slopes: --slope VALUE belongs to `strandline correct`");
+  // Estimation is what this command does: --slope auto is implied.
+  CommandArgs with_auto = argv;
+  if (!args.get("slope")) {
+    with_auto.push_back("--slope");
+    with_auto.push_back("auto");
+  }
+  Args batch_args(with_auto, {"skip-invalid", "help", "quiet"});
+  batch_args.flag("skip-invalid");
+  batch_args.flag("quiet");
+  batch_args.get("out");
+  BatchInputs batch = load_batch_inputs(batch_args, {args.flag("skip-invalid")});
+  load_wave_inputs(batch_args, batch);
+  batch_args.finish();
+
+  SiteTable& table = batch.observations.table;
+  const bool show_progress = !quiet && ::isatty(STDERR_FILENO);
+  const ProgressFn progress = [&](std::size_t done, std::size_t total) {
+    if (show_progress && (done == total || done % 50 == 0))
+      std::fprintf(stderr, "\restimating slopes %zu/%zu", done, total);
+  };
+  const RunRecord record = batch.pipeline.run(table, batch.inputs, progress);
+  if (show_progress) std::fprintf(stderr, "\n");
+
+  nlohmann::json doc = slopes_json(table, batch.inputs.slopes);
+  nlohmann::json slope_step_record = nullptr;
+  for (const auto& s : record.steps)
+    if (s.step == "slope") slope_step_record = {{"parameters", s.parameters}, {"result", s.log.to_json()}, {"seconds", s.seconds}};
+  doc["provenance"] = {{"version", STRANDLINE_VERSION},
+                       {"command", "slope"},
+                       {"parameters", batch.parameters},
+                       {"inputs", batch.input_files},
+                       {"water_levels", batch.inputs.water_levels->describe()},
+                       {"slope_step", slope_step_record}};
+  write_file_atomically(out_path, doc.dump(2) + "\n");
+  if (!quiet) {
+    std::size_t estimated = 0, not_identifiable = 0;
+    for (const auto& t : table.transects) {
+      estimated += t.slope_source == SlopeSource::estimated ? 1 : 0;
+      not_identifiable += t.slope_identifiable ? 0 : 1;
+    }
+    std::cerr << "slopes of " << table.transects.size() << " transects: " << estimated << " estimated, "
+              << not_identifiable << " not identifiable\nslopes: " << out_path << "\n";
+  }
+  return kExitOk;
+}
+
+}  // namespace strandline::cli
