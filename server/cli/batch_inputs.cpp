@@ -9,6 +9,7 @@
 #include "corrections/tide/harmonic_tide_source.h"
 #include "corrections/water_level/blended_water_level_source.h"
 #include "server/io/file_digest.h"
+#include "server/io/slopes_json.h"
 #include "server/io/transect_params_csv.h"
 #include "server/io/water_level_csv.h"
 
@@ -42,6 +43,26 @@ SlopeValue slope_option(Args& args, const std::string& name, const std::string& 
   return v;
 }
 
+// --slope-range MIN:MAX, the search range of the spectral estimate.
+void read_slope_range(Args& args, SlopePlan& plan, nlohmann::json& parameters) {
+  const auto text = args.get("slope-range");
+  if (!text) return;
+  if (!plan.estimate) throw UsageError("option --slope-range goes with --slope auto");
+  const auto colon = text->find(':');
+  if (colon == std::string::npos) throw UsageError("option --slope-range \"" + *text + "\": expected MIN:MAX, e.g. 0.01:0.2");
+  try {
+    plan.search_min = parse_number(text->substr(0, colon));
+    plan.search_max = parse_number(text->substr(colon + 1));
+  } catch (const FieldError& e) {
+    throw UsageError("option --slope-range \"" + *text + "\": " + e.what());
+  }
+  for (double v : {plan.search_min, plan.search_max})
+    if (auto why = slope_problem(v)) throw UsageError("option --slope-range \"" + *text + "\": " + *why);
+  if (!(plan.search_min < plan.search_max))
+    throw UsageError("option --slope-range \"" + *text + "\": MIN must be below MAX");
+  parameters["slope_range"] = {plan.search_min, plan.search_max};
+}
+
 }  // namespace
 
 std::string batch_options_help() {
@@ -51,7 +72,9 @@ std::string batch_options_help() {
          "  --reference-elevation M    reference contour z_ref in metres on the datum (default 0)\n"
          "  --slope VALUE|auto         tan(beta) for every transect, or estimate it (auto)\n"
          "  --slope-sigma VALUE        1-sigma of a --slope VALUE\n"
-         "  --slopes FILE              per-transect slopes (CSV transect_id,slope[,slope_sigma])\n"
+         "  --slope-range MIN:MAX      tan(beta) search range of --slope auto (default 0.01:0.2)\n"
+         "  --slopes FILE              per-transect slopes (CSV transect_id,slope[,slope_sigma], or the\n"
+         "                             .json of `strandline slope`); with auto, listed transects keep them\n"
          "  --transect-params FILE     per-transect slope, slope_sigma, z_ref_m (CSV)\n"
          "  --default-slope VALUE      slope for transects not listed (flagged default_slope)\n"
          "  --default-slope-sigma V    1-sigma of the default slope\n"
@@ -82,11 +105,9 @@ BatchInputs load_batch_inputs(Args& args, const BatchOptions& options) {
   SlopePlan& plan = b.inputs.slopes;
   const auto slope_text = args.get("slope");
   const bool slope_auto = slope_text && *slope_text == "auto";
-  if (slope_auto) {
-    throw UsageError("--slope auto (the spectral slope estimate) is not available in this build; "
-                     "give --slope VALUE, --slopes FILE or --default-slope VALUE");
-  }
-  if (slope_text) {
+  if (slope_auto) plan.estimate = true;
+  read_slope_range(args, plan, b.parameters);
+  if (slope_text && !slope_auto) {
     plan.all = slope_option(args, "slope", "slope-sigma");
     b.parameters["slope"] = plan.all->slope;
   } else if (args.get("slope-sigma")) {
@@ -94,7 +115,8 @@ BatchInputs load_batch_inputs(Args& args, const BatchOptions& options) {
   }
   if (auto path = args.get("slopes")) {
     if (plan.all) throw UsageError("give either --slope VALUE (one slope for every transect) or --slopes FILE, not both");
-    plan.per_transect = read_transect_params_file(*path, true).slopes;
+    plan.per_transect = is_slopes_json_path(*path) ? read_slopes_json_file(*path)
+                                                   : read_transect_params_file(*path, true).slopes;
     b.record_file("slopes", *path);
   }
   if (auto path = args.get("transect-params")) {
