@@ -13,10 +13,14 @@ LayerSink::LayerSink(GeoFormat format, const std::string& path, const WorkCrs& w
   const char* driver_name = format == GeoFormat::geopackage ? "GPKG" : "GeoJSON";
   GDALDriver* driver = GetGDALDriverManager()->GetDriverByName(driver_name);
   if (!driver) throw std::runtime_error(std::string("GDAL has no ") + driver_name + " driver");
+  // Written beside the target and renamed into place when complete, so a
+  // failed run never leaves a half-written file under the final name.
+  const std::filesystem::path target(path);
+  temp_path_ = (target.parent_path() / (".partial-" + target.filename().string())).string();
   std::error_code ec;
-  std::filesystem::remove(path, ec);
+  std::filesystem::remove(temp_path_, ec);
   CPLErrorReset();
-  ds_.reset(driver->Create(path.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
+  ds_.reset(driver->Create(temp_path_.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
   if (!ds_) throw InputError(path + ": cannot create (" + std::string(CPLGetLastErrorMsg()) + ")");
   files.push_back(path);
   if (work_srs_.importFromWkt(work.definition.c_str()) != OGRERR_NONE)
@@ -54,6 +58,18 @@ void LayerSink::finish() {
   GDALClose(GDALDataset::ToHandle(raw));
   if (CPLGetLastErrorType() == CE_Failure)
     throw InputError(path_ + ": write failed (" + std::string(CPLGetLastErrorMsg()) + ")");
+  std::error_code ec;
+  std::filesystem::rename(temp_path_, path_, ec);
+  if (ec) throw InputError(path_ + ": cannot move the finished file into place (" + ec.message() + ")");
+  temp_path_.clear();
+}
+
+LayerSink::~LayerSink() {
+  ds_.reset();
+  if (!temp_path_.empty()) {
+    std::error_code ec;
+    std::filesystem::remove(temp_path_, ec);
+  }
 }
 
 }  // namespace strandline::geo

@@ -31,6 +31,8 @@ struct Image {
   std::vector<OGREnvelope> envelopes;
 };
 
+constexpr std::size_t kSegmentsPerPiece = 64;
+
 bool same_value(double a, double b) { return (std::isnan(a) && std::isnan(b)) || a == b; }
 
 // Chainages of every point of an intersection result (points, or the ends of
@@ -119,13 +121,19 @@ IntersectResult intersect_shorelines(const std::string& path, const TransectSet&
     }
     for (auto& part : parts) {
       if (to_work) to_work->apply(part);
-      auto line = std::make_unique<OGRLineString>();
-      line->setNumPoints(static_cast<int>(part.size()), FALSE);
-      for (std::size_t i = 0; i < part.size(); ++i) line->setPoint(static_cast<int>(i), part[i].x, part[i].y);
-      OGREnvelope env;
-      line->getEnvelope(&env);
-      img.parts.push_back(std::move(line));
-      img.envelopes.push_back(env);
+      // Long polylines are cut into pieces of kSegmentsPerPiece segments, each
+      // with its envelope, so a transect meets only the pieces near it.
+      for (std::size_t first = 0; first + 1 < part.size(); first += kSegmentsPerPiece) {
+        const std::size_t last = std::min(first + kSegmentsPerPiece, part.size() - 1);
+        auto line = std::make_unique<OGRLineString>();
+        line->setNumPoints(static_cast<int>(last - first + 1), FALSE);
+        for (std::size_t i = first; i <= last; ++i)
+          line->setPoint(static_cast<int>(i - first), part[i].x, part[i].y);
+        OGREnvelope env;
+        line->getEnvelope(&env);
+        img.parts.push_back(std::move(line));
+        img.envelopes.push_back(env);
+      }
     }
   }
   result.report.images = images.size();
@@ -155,7 +163,8 @@ IntersectResult intersect_shorelines(const std::string& path, const TransectSet&
         std::unique_ptr<OGRGeometry> hit(segment.Intersection(img->parts[i].get()));
         if (hit) collect_chainages(*hit, origin, ux, uy, chainages);
       }
-      // A crossing through a vertex shared by two polylines counts once.
+      // A crossing through a vertex shared by two polylines (or two pieces of
+      // one) counts once.
       std::sort(chainages.begin(), chainages.end());
       chainages.erase(std::unique(chainages.begin(), chainages.end(),
                                   [](double a, double b) { return std::abs(a - b) < 1e-6; }),

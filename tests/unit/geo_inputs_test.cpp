@@ -269,6 +269,24 @@ TEST_F(GeoInputs, CrossingsCountedAndChosen) {
   EXPECT_EQ(flagged.report.left_out_ambiguous, 1u);
 }
 
+TEST_F(GeoInputs, LongPolylineCrossingsAllFound) {
+  // A zig-zag of 200 vertices (x = 500000 -/+ 10 m, 1.5 m apart in y) crosses
+  // transect A once per segment, at the segment midpoints: chainages
+  // 10 + 1.5 (i + 0.5), i = 0..198 (the polyline is cut into pieces inside).
+  const auto t = utm_transects();
+  std::string coords;
+  for (int i = 0; i < 200; ++i) {
+    if (i) coords += ",";
+    coords += "[" + std::to_string(i % 2 ? 500010 : 499990) + "," + std::to_string(4999990.0 - 1.5 * i) + "]";
+  }
+  const auto s = geojson("s.geojson", line("\"time\":\"2020-01-01T10:00:00Z\",\"sensor\":\"s1\",\"image_id\":\"i1\"", coords),
+                         "urn:ogc:def:crs:EPSG::32631");
+  auto r = intersect_shorelines(s, t, {});
+  ASSERT_EQ(r.rows.size(), 1u);
+  EXPECT_EQ(r.rows[0].crossings, 199);
+  EXPECT_NEAR(r.rows[0].chainage_m, 10 + 1.5 * 198.5, 1e-9);
+}
+
 TEST_F(GeoInputs, BaselineTransectsAreNormalOnTheSeawardSide) {
   // A straight baseline due east: the sea on the right means transects point
   // south (azimuth 180), one every 50 m including both ends.
