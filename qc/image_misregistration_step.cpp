@@ -16,6 +16,8 @@ void ImageMisregistrationStep::Params::validate(const std::string& pointer) cons
   if (!(inlier_k > 0)) throw ConfigError(pointer + "/inlier_k", "expected a positive number");
   if (!(level_half_window_days > 0))
     throw ConfigError(pointer + "/level_half_window_days", "expected a positive number of days");
+  if (!(storm_share_max > 0 && storm_share_max <= 1))
+    throw ConfigError(pointer + "/storm_share_max", "expected a fraction in (0, 1]");
 }
 
 std::unique_ptr<Step> ImageMisregistrationStep::make(const nlohmann::json& params, const std::string& pointer) {
@@ -27,6 +29,7 @@ std::unique_ptr<Step> ImageMisregistrationStep::make(const nlohmann::json& param
   r.number("inlier_k", p.inlier_k);
   r.boolean("use_geometry", p.use_geometry);
   r.number("level_half_window_days", p.level_half_window_days);
+  r.number("storm_share_max", p.storm_share_max);
   r.finish();
   p.validate(pointer);
   return std::make_unique<ImageMisregistrationStep>(p);
@@ -38,7 +41,8 @@ ImageMisregistrationStep::ImageMisregistrationStep(const Params& p)
                                          {"min_shift_m", p.min_shift_m},
                                          {"inlier_k", p.inlier_k},
                                          {"use_geometry", p.use_geometry},
-                                         {"level_half_window_days", p.level_half_window_days}}),
+                                         {"level_half_window_days", p.level_half_window_days},
+                                         {"storm_share_max", p.storm_share_max}}),
       p_(p) {}
 
 namespace {
@@ -94,6 +98,14 @@ void ImageMisregistrationStep::process(SiteTable& table, const RunInputs& inputs
   std::vector<std::size_t> rows;
   for (std::size_t im = 0; im < res.rows_by_image.size(); ++im) {
     r.clear(), w.clear(), u.clear(), v.clear(), rows.clear();
+    std::size_t storm_points = 0;
+    for (std::size_t i : res.rows_by_image[im]) storm_points += has_flag(table.flags[i], Flag::storm_response) ? 1 : 0;
+    // A storm moves every transect landward at once: an image where storm
+    // response is seen on many transects is explained by the storm.
+    if (storm_points > 0 && double(storm_points) >= p_.storm_share_max * double(res.rows_by_image[im].size())) {
+      log.count("images_explained_by_storm");
+      continue;
+    }
     for (std::size_t i : res.rows_by_image[im]) {
       if (has_flag(table.flags[i], Flag::storm_response)) continue;
       const auto& g = table.transects[table.transect[i]].geometry;

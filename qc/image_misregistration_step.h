@@ -10,7 +10,9 @@
 // when that exceeds 1) has a chi-square tail probability below `alpha` (1 or 2
 // degrees of freedom), and large when the rms of the fitted offsets over the
 // image's transects is at least `min_shift_m`. Both: every corrected point of
-// the image gets image_misregistered.
+// the image gets image_misregistered. Images where at least `storm_share_max`
+// of the points carry storm_response are not tested: a storm moves every
+// transect landward at once, which is real change, not misregistration.
 #pragma once
 
 #include "corrections/core/step.h"
@@ -26,6 +28,7 @@ class ImageMisregistrationStep final : public SiteStep {
     double inlier_k = 3.0;
     bool use_geometry = true;
     double level_half_window_days = 45.0;
+    double storm_share_max = 0.25;  // images with at least this share of storm_response points are not tested
     void validate(const std::string& pointer) const;
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);

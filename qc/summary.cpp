@@ -3,6 +3,7 @@
 #include <map>
 
 #include "qc/cautions.h"
+#include "qc/trend_summary.h"
 
 namespace strandline {
 
@@ -10,7 +11,8 @@ namespace {
 nlohmann::json number_or_null(double v) { return known(v) ? nlohmann::json(v) : nlohmann::json(nullptr); }
 }  // namespace
 
-nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, const SummaryOptions&) {
+nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, const RunInputs& inputs,
+                                const SummaryOptions& options) {
   const TransectInfo& t = table.transects[transect];
   std::size_t accepted = 0, corrected = 0;
   std::map<std::string, std::size_t> by_flag;
@@ -41,13 +43,24 @@ nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, co
       {"mean_interval_days",
        accepted > 1 ? nlohmann::json((last - first) / kSecondsPerDay / double(accepted - 1)) : nlohmann::json(nullptr)},
   };
+  std::vector<std::string> cautions;
+  if (t.slope_source == SlopeSource::default_value) cautions.push_back("default slope: positions depend on an assumed slope");
+  if (!t.slope_identifiable) cautions.push_back("slope not identifiable from the data");
+  if (t.size() > 0 && accepted < 0.8 * double(corrected))
+    cautions.push_back("more than 20% of the corrected points were rejected");
+  add_trend_summary(table, transect, inputs, options.trend_from_s, options.trend_to_s, j, cautions);
+  j["cautions"] = cautions;
   if (!t.slope_details.is_null()) j["slope_details"] = t.slope_details;
   return j;
 }
 
+nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, const SummaryOptions& options) {
+  return transect_summary(table, transect, RunInputs{}, options);
+}
+
 nlohmann::json site_summary(const SiteTable& table, const RunInputs& inputs, const SummaryOptions& options) {
   nlohmann::json transects = nlohmann::json::array();
-  for (std::size_t t = 0; t < table.transects.size(); ++t) transects.push_back(transect_summary(table, t, options));
+  for (std::size_t t = 0; t < table.transects.size(); ++t) transects.push_back(transect_summary(table, t, inputs, options));
   const char* wave_correction = inputs.waves == nullptr ? "none (no wave record)"
                                 : inputs.wave_correction == WaveCorrection::none  ? "none"
                                 : inputs.wave_correction == WaveCorrection::setup ? "setup"

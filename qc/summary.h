@@ -16,6 +16,10 @@ struct SummaryOptions {
   TimeS trend_to_s = kUnknown;
 };
 
+nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, const RunInputs& inputs,
+                                const SummaryOptions& options);
+// The same without the run's inputs (the slope-bound re-evaluation then assumes a
+// slope-free wave term, exact for `none` and `setup`).
 nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, const SummaryOptions& options);
 
 // {"schema_version", "transects": [...], "cautions": [...]}; callers add "provenance".
