@@ -4,6 +4,7 @@
 #include <cmath>
 #include <numbers>
 
+#include "corrections/core/errors.h"
 #include "qc/alongshore_step.h"
 #include "qc/despike_step.h"
 #include "qc/hampel_step.h"
