@@ -182,6 +182,12 @@ TEST(QcStormResponse, SameJumpWithoutStormIsNotStormResponse) {
   auto table = make_table(obs);
   run_site_step(*StormResponseStep::make(nullptr, "/steps/storm_response"), table, in);
   EXPECT_EQ(count_flag(table, Flag::storm_response), 0u);
+  // Unprotected, the sharp retreat is what the outlier filters reject: the storm step is what keeps it.
+  run_transect_step(*HampelStep::make(nullptr, "/steps/hampel"), table, in);
+  run_transect_step(*ImplausibleRateStep::make(nullptr, "/steps/implausible_rate"), table, in);
+  std::size_t rejected_after_storm = 0;
+  for (std::size_t k = 100; k < 130; ++k) rejected_after_storm += table.accepted(row_of(table, k)) ? 0 : 1;
+  EXPECT_GT(rejected_after_storm, 0u);
   auto no_waves = make_table(obs);
   run_site_step(*StormResponseStep::make(nullptr, "/steps/storm_response"), no_waves, RunInputs{});
   EXPECT_EQ(count_flag(no_waves, Flag::storm_response), 0u);
