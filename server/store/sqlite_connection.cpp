@@ -98,6 +98,8 @@ Connection::Connection(const std::string& path, bool read_only) {
     // A large upload touches many index pages: a page cache that holds them
     // keeps the transaction from spilling to the log and re-reading it.
     exec("PRAGMA cache_size=-262144; PRAGMA mmap_size=1073741824; PRAGMA temp_store=MEMORY;");
+    // Checkpoints run on the store's own thread, not inside an upload's commit.
+    exec("PRAGMA wal_autocheckpoint=0;");
   }
 }
 

@@ -34,9 +34,34 @@ using detail::site_key;
 SqliteStore::SqliteStore(const std::string& path) : path_(path) {
   writer_ = std::make_unique<Connection>(path, false);
   migrate_sqlite_schema(*writer_);
+  checkpointer_ = std::thread([this] { checkpoint_loop(); });
 }
 
-SqliteStore::~SqliteStore() = default;
+SqliteStore::~SqliteStore() {
+  {
+    std::lock_guard lock(checkpoint_mutex_);
+    stopping_ = true;
+  }
+  checkpoint_wake_.notify_all();
+  checkpointer_.join();
+  try {
+    writer_->exec("PRAGMA wal_checkpoint(PASSIVE)");
+  } catch (...) {
+  }
+}
+
+void SqliteStore::checkpoint_loop() {
+  std::unique_ptr<Connection> db;
+  std::unique_lock lock(checkpoint_mutex_);
+  while (!checkpoint_wake_.wait_for(lock, std::chrono::milliseconds(500), [&] { return stopping_; })) {
+    try {
+      if (!db) db = std::make_unique<Connection>(path_, false);
+      db->exec("PRAGMA wal_checkpoint(PASSIVE)");
+    } catch (const std::exception&) {
+      db.reset();  // busy or transient: try again on the next tick
+    }
+  }
+}
 
 SqliteStore::ReaderLease SqliteStore::reader() {
   {

@@ -4,8 +4,10 @@
 // consistent snapshot while a write is in progress.
 #pragma once
 
+#include <condition_variable>
 #include <memory>
 #include <mutex>
+#include <thread>
 #include <string>
 #include <vector>
 
@@ -93,6 +95,13 @@ class SqliteStore final : public Store {
   std::unique_ptr<Connection> writer_;
   std::mutex readers_mutex_;
   std::vector<std::unique_ptr<Connection>> idle_readers_;
+  // Copies the write-ahead log back into the database in the background
+  // (passive: never blocks readers or the writer).
+  void checkpoint_loop();
+  std::mutex checkpoint_mutex_;
+  std::condition_variable checkpoint_wake_;
+  bool stopping_ = false;
+  std::thread checkpointer_;
 };
 
 }  // namespace strandline::store

@@ -1,4 +1,5 @@
 // Uploads, retractions and the live inputs of runs (part of SqliteStore).
+#include <algorithm>
 #include <set>
 
 #include "corrections/core/time_utc.h"
@@ -76,7 +77,13 @@ struct Outcome {
       conflicts.back().reason = "(further conflicts not listed)";
   }
   void throw_if_conflicts() {
-    if (!conflicts.empty()) throw ConflictError(std::move(conflicts));
+    if (conflicts.empty()) return;
+    std::stable_sort(conflicts.begin(), conflicts.end(), [](const auto& a, const auto& b) { return a.line < b.line; });
+    throw ConflictError(std::move(conflicts));
+  }
+  void sort_report() {
+    std::stable_sort(result.duplicate_rows.begin(), result.duplicate_rows.end(),
+                     [](const auto& a, const auto& b) { return a.line < b.line; });
   }
 };
 
@@ -101,7 +108,15 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
       "SELECT time_s, chainage_m, sensor, cloud_fraction, georef_rmse_m FROM observations "
       "WHERE site_key = ? AND transect_id = ? AND image_id = ? AND live = 1");
   std::set<std::string> touched;
-  for (const auto& r : rows) {
+  // Inserting in index order keeps consecutive index updates on the same pages.
+  std::vector<std::uint32_t> order(rows.size());
+  for (std::uint32_t i = 0; i < order.size(); ++i) order[i] = i;
+  std::sort(order.begin(), order.end(), [&](std::uint32_t a, std::uint32_t b) {
+    const int c = rows[a].transect_id.compare(rows[b].transect_id);
+    return c != 0 ? c < 0 : (rows[a].image_id != rows[b].image_id ? rows[a].image_id < rows[b].image_id : a < b);
+  });
+  for (const auto index : order) {
+    const auto& r = rows[index];
     insert.bind(1, out.result.upload_id)
         .bind(2, key)
         .bind(3, r.transect_id)
@@ -136,6 +151,7 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
                        differs);
   }
   out.throw_if_conflicts();
+  out.sort_report();
   end_upload(*writer_, out.result);
   for (const auto& t : touched) record_change(*writer_, key, t, out.result.upload_id);
   tx.commit();
