@@ -12,11 +12,19 @@ namespace {
 using R = NodalRule;
 
 ConstituentDefinition fundamental(std::string_view name, std::array<int, 6> doodson, int quarter_cycles, R rule) {
-  return ConstituentDefinition{name, doodson, quarter_cycles, rule, {}};
+  ConstituentDefinition c;
+  c.name = name;
+  c.doodson = doodson;
+  c.phase_quarter_cycles = quarter_cycles;
+  c.rule = rule;
+  return c;
 }
 
 ConstituentDefinition compound(std::string_view name, std::vector<CompoundPart> parts) {
-  return ConstituentDefinition{name, {}, 0, R::none, std::move(parts)};
+  ConstituentDefinition c;
+  c.name = name;
+  c.parts = std::move(parts);
+  return c;
 }
 
 // Arguments as in Schureman (1958) Table 2 rewritten with tau = T + h - s; the
@@ -81,22 +89,32 @@ std::vector<ConstituentDefinition> build_table() {
   };
 }
 
-// MSf = S2 - M2 in its nodal behaviour (Schureman: f of M2, u = -u(M2)).
-bool is_msf(const ConstituentDefinition& c) { return c.name == "MSf"; }
-
 }  // namespace
 
 const std::vector<ConstituentDefinition>& constituent_table() {
   static const std::vector<ConstituentDefinition> table = [] {
     auto t = build_table();
-    // Every compound's parents must be fundamentals of the table.
-    for (const auto& c : t)
-      for (const auto& part : c.parts) {
-        bool found = false;
-        for (const auto& p : t)
-          if (p.name == part.parent && !p.compound()) found = true;
-        if (!found) throw std::logic_error("constituent table: bad parent of " + std::string(c.name));
+    auto parent_of = [&t](const ConstituentDefinition& c, const CompoundPart& part) -> const ConstituentDefinition& {
+      for (const auto& p : t)
+        if (p.name == part.parent && !p.compound()) return p;
+      throw std::logic_error("constituent table: bad parent of " + std::string(c.name));
+    };
+    for (auto& c : t) {
+      if (!c.compound()) {
+        c.argument_doodson = c.doodson;
+        c.argument_quarter_cycles = c.phase_quarter_cycles;
+        // MSf (= S2 - M2 in its nodal behaviour, Schureman): f of M2, u = -u(M2).
+        if (c.name == "MSf") c.nodal_terms = {{NodalRule::m2, -1}};
+        else if (c.rule != NodalRule::none) c.nodal_terms = {{c.rule, 1}};
+        continue;
       }
+      for (const auto& part : c.parts) {
+        const ConstituentDefinition& parent = parent_of(c, part);
+        for (std::size_t k = 0; k < 6; ++k) c.argument_doodson[k] += part.multiple * parent.doodson[k];
+        c.argument_quarter_cycles += part.multiple * parent.phase_quarter_cycles;
+        if (parent.rule != NodalRule::none) c.nodal_terms.push_back({parent.rule, part.multiple});
+      }
+    }
     return t;
   }();
   return table;
@@ -118,44 +136,36 @@ const ConstituentDefinition* find_constituent(std::string_view name) {
 }
 
 ResolvedArgument resolved_argument(const ConstituentDefinition& c) {
-  if (!c.compound()) return {c.doodson, c.phase_quarter_cycles};
-  ResolvedArgument r;
-  for (const auto& part : c.parts) {
-    const ConstituentDefinition& parent = *find_constituent(part.parent);
-    for (std::size_t k = 0; k < 6; ++k) r.doodson[k] += part.multiple * parent.doodson[k];
-    r.phase_quarter_cycles += part.multiple * parent.phase_quarter_cycles;
-  }
-  return r;
+  return {c.argument_doodson, c.argument_quarter_cycles};
 }
 
 double speed_deg_per_h(const ConstituentDefinition& c) {
-  const ResolvedArgument r = resolved_argument(c);
+  const auto& d = c.argument_doodson;
   const AstronomicalRates& w = astronomical_rates();
-  return r.doodson[0] * w.tau_deg_per_h + r.doodson[1] * w.s_deg_per_h + r.doodson[2] * w.h_deg_per_h +
-         r.doodson[3] * w.p_deg_per_h - r.doodson[4] * w.n_deg_per_h + r.doodson[5] * w.p1_deg_per_h;
+  return d[0] * w.tau_deg_per_h + d[1] * w.s_deg_per_h + d[2] * w.h_deg_per_h + d[3] * w.p_deg_per_h -
+         d[4] * w.n_deg_per_h + d[5] * w.p1_deg_per_h;
 }
 
 double equilibrium_argument_deg(const ConstituentDefinition& c, const AstronomicalArguments& a) {
-  const ResolvedArgument r = resolved_argument(c);
-  const double v = r.doodson[0] * a.tau_deg + r.doodson[1] * a.s_deg + r.doodson[2] * a.h_deg +
-                   r.doodson[3] * a.p_deg - r.doodson[4] * a.n_deg + r.doodson[5] * a.p1_deg +
-                   90.0 * r.phase_quarter_cycles;
+  const auto& d = c.argument_doodson;
+  const double v = d[0] * a.tau_deg + d[1] * a.s_deg + d[2] * a.h_deg + d[3] * a.p_deg - d[4] * a.n_deg +
+                   d[5] * a.p1_deg + 90.0 * c.argument_quarter_cycles;
   return wrap_deg_360(v);
 }
 
-NodalFactor constituent_nodal_factor(const ConstituentDefinition& c, const NodeAngles& angles) {
-  if (is_msf(c)) {
-    const NodalFactor m2 = nodal_factor(NodalRule::m2, angles);
-    return {m2.f, -m2.u_deg};
-  }
-  if (!c.compound()) return nodal_factor(c.rule, angles);
+NodalFactor constituent_nodal_factor(const ConstituentDefinition& c,
+                                     const std::array<NodalFactor, kNodalRuleCount>& by_rule) {
   NodalFactor out;
-  for (const auto& part : c.parts) {
-    const NodalFactor p = constituent_nodal_factor(*find_constituent(part.parent), angles);
-    out.f *= std::pow(p.f, std::abs(part.multiple));
-    out.u_deg += part.multiple * p.u_deg;
+  for (const auto& [rule, multiple] : c.nodal_terms) {
+    const NodalFactor& p = by_rule[static_cast<std::size_t>(rule)];
+    for (int k = std::abs(multiple); k > 0; --k) out.f *= p.f;
+    out.u_deg += multiple * p.u_deg;
   }
   return out;
+}
+
+NodalFactor constituent_nodal_factor(const ConstituentDefinition& c, const NodeAngles& angles) {
+  return constituent_nodal_factor(c, nodal_factors(angles));
 }
 
 std::string known_constituent_names() {

@@ -7,6 +7,7 @@
 
 #include <array>
 #include <optional>
+#include <utility>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -28,6 +29,12 @@ struct ConstituentDefinition {
   int phase_quarter_cycles = 0;  // phase offset in units of 90 deg
   NodalRule rule = NodalRule::none;
   std::vector<CompoundPart> parts;  // non-empty for a compound tide
+
+  // Filled once when the table is built: the effective argument (compound tides
+  // summed from their parents) and f = prod f_rule^|k|, u = sum k u_rule.
+  std::array<int, 6> argument_doodson{};
+  int argument_quarter_cycles = 0;
+  std::vector<std::pair<NodalRule, int>> nodal_terms;
 
   bool compound() const { return !parts.empty(); }
 };
@@ -53,6 +60,9 @@ double equilibrium_argument_deg(const ConstituentDefinition& c, const Astronomic
 
 // Nodal factor and phase correction (compound tides from their parents).
 NodalFactor constituent_nodal_factor(const ConstituentDefinition& c, const NodeAngles& angles);
+// The same from the factors of every rule at one time (see nodal_factors()).
+NodalFactor constituent_nodal_factor(const ConstituentDefinition& c,
+                                     const std::array<NodalFactor, kNodalRuleCount>& by_rule);
 
 // Comma-separated list of all names, for messages.
 std::string known_constituent_names();

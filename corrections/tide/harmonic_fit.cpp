@@ -113,12 +113,12 @@ HarmonicFitResult fit_harmonics(const std::vector<TimeS>& times_s, const std::ve
   Eigen::VectorXd y(n);
   for (std::size_t i = 0; i < n; ++i) {
     const AstronomicalArguments astro = astronomical_arguments(times_s[i]);
-    const NodeAngles nodes = node_angles(astro);
+    const auto nodal = nodal_factors(node_angles(astro));
     a(i, 0) = 1.0;
     if (options.fit_rate) a(i, 1) = (times_s[i] - epoch) / kSecondsPerJulianYear;
     for (std::size_t j = 0; j < admitted.size(); ++j) {
       const ConstituentDefinition& d = *admitted[j].definition;
-      const NodalFactor nf = constituent_nodal_factor(d, nodes);
+      const NodalFactor nf = constituent_nodal_factor(d, nodal);
       const double arg = (equilibrium_argument_deg(d, astro) + nf.u_deg) * kRad;
       a(i, base + 2 * j) = nf.f * std::cos(arg);
       a(i, base + 2 * j + 1) = nf.f * std::sin(arg);

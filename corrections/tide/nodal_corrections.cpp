@@ -65,50 +65,48 @@ NodeAngles node_angles(const AstronomicalArguments& a) {
   return out;
 }
 
-NodalFactor nodal_factor(NodalRule rule, const NodeAngles& g) {
+std::array<NodalFactor, kNodalRuleCount> nodal_factors(const NodeAngles& g) {
   const double big_i = g.i_deg * kRad;
   const double xi = g.xi_deg;
   const double nu = g.nu_deg;
   const MeanCoefficients mean = mean_coefficients(g.obliquity_deg * kRad);
-  const double f_m2 = std::pow(std::cos(big_i / 2), 4) / mean.m2;
+  const double sin_i = std::sin(big_i), cos_half = std::cos(big_i / 2), sin_half = std::sin(big_i / 2);
+  const double sin_2i = std::sin(2 * big_i);
+  const double f_m2 = std::pow(cos_half, 4) / mean.m2;
   const double u_m2 = 2 * xi - 2 * nu;
-  switch (rule) {
-    case NodalRule::none:
-      return {1.0, 0.0};
-    case NodalRule::mm:
-      return {(2.0 / 3.0 - sq(std::sin(big_i))) / mean.mm, 0.0};
-    case NodalRule::mf:
-      return {sq(std::sin(big_i)) / mean.mf, -2 * xi};
-    case NodalRule::o1:
-      return {std::sin(big_i) * sq(std::cos(big_i / 2)) / mean.o1, 2 * xi - nu};
-    case NodalRule::j1:
-      return {std::sin(2 * big_i) / mean.j1, -nu};
-    case NodalRule::oo1:
-      return {std::sin(big_i) * sq(std::sin(big_i / 2)) / mean.oo1, -2 * xi - nu};
-    case NodalRule::m2:
-      return {f_m2, u_m2};
-    case NodalRule::k1: {
-      const double s2i = std::sin(2 * big_i);
-      const double amp = std::sqrt(0.2523 * sq(s2i) + 0.1689 * s2i * std::cos(nu * kRad) + 0.0283);
-      return {amp / mean.k1, -g.nu1_deg};
-    }
-    case NodalRule::k2: {
-      const double si2 = sq(std::sin(big_i));
-      const double amp = std::sqrt(0.2523 * sq(si2) + 0.0367 * si2 * std::cos(2 * nu * kRad) + 0.0013);
-      return {amp / mean.k2, -g.two_nu2_deg};
-    }
-    case NodalRule::l2: {
-      const double two_p = 2 * g.p_minus_xi_deg * kRad;
-      const double tan_half_i2 = sq(std::tan(big_i / 2));
-      const double inv_ra = std::sqrt(1 - 12 * tan_half_i2 * std::cos(two_p) + 36 * sq(tan_half_i2));
-      // eq. 214: tan R = sin 2P / (cot^2(I/2) / 6 - cos 2P)
-      const double r_deg = std::atan2(std::sin(two_p), 1.0 / (6.0 * tan_half_i2) - std::cos(two_p)) * kDeg;
-      return {f_m2 * inv_ra, u_m2 - r_deg};
-    }
-    case NodalRule::m3:
-      return {std::pow(f_m2, 1.5), 1.5 * u_m2};
+  auto at = [](NodalRule r) { return static_cast<std::size_t>(r); };
+
+  std::array<NodalFactor, kNodalRuleCount> out;
+  out[at(NodalRule::none)] = {1.0, 0.0};
+  out[at(NodalRule::mm)] = {(2.0 / 3.0 - sq(sin_i)) / mean.mm, 0.0};
+  out[at(NodalRule::mf)] = {sq(sin_i) / mean.mf, -2 * xi};
+  out[at(NodalRule::o1)] = {sin_i * sq(cos_half) / mean.o1, 2 * xi - nu};
+  out[at(NodalRule::j1)] = {sin_2i / mean.j1, -nu};
+  out[at(NodalRule::oo1)] = {sin_i * sq(sin_half) / mean.oo1, -2 * xi - nu};
+  out[at(NodalRule::m2)] = {f_m2, u_m2};
+  {
+    const double amp = std::sqrt(0.2523 * sq(sin_2i) + 0.1689 * sin_2i * std::cos(nu * kRad) + 0.0283);
+    out[at(NodalRule::k1)] = {amp / mean.k1, -g.nu1_deg};
   }
-  return {1.0, 0.0};
+  {
+    const double si2 = sq(sin_i);
+    const double amp = std::sqrt(0.2523 * sq(si2) + 0.0367 * si2 * std::cos(2 * nu * kRad) + 0.0013);
+    out[at(NodalRule::k2)] = {amp / mean.k2, -g.two_nu2_deg};
+  }
+  {
+    const double two_p = 2 * g.p_minus_xi_deg * kRad;
+    const double tan_half_i2 = sq(sin_half / cos_half);
+    const double inv_ra = std::sqrt(1 - 12 * tan_half_i2 * std::cos(two_p) + 36 * sq(tan_half_i2));
+    // eq. 214: tan R = sin 2P / (cot^2(I/2) / 6 - cos 2P)
+    const double r_deg = std::atan2(std::sin(two_p), 1.0 / (6.0 * tan_half_i2) - std::cos(two_p)) * kDeg;
+    out[at(NodalRule::l2)] = {f_m2 * inv_ra, u_m2 - r_deg};
+  }
+  out[at(NodalRule::m3)] = {f_m2 * std::sqrt(f_m2), 1.5 * u_m2};
+  return out;
+}
+
+NodalFactor nodal_factor(NodalRule rule, const NodeAngles& angles) {
+  return nodal_factors(angles)[static_cast<std::size_t>(rule)];
 }
 
 }  // namespace strandline::tide

@@ -5,6 +5,9 @@
 // parents (see constituent_table.h).
 #pragma once
 
+#include <array>
+#include <cstddef>
+
 #include "corrections/tide/astronomy.h"
 
 namespace strandline::tide {
@@ -23,6 +26,7 @@ enum class NodalRule {
   l2,    // L2: f eq. 215 (f_M2 / Ra), u = 2 xi - 2 nu - R
   m3,    // M3: f = f_M2^(3/2) (eq. 149), u = 3 xi - 3 nu
 };
+inline constexpr std::size_t kNodalRuleCount = 11;
 
 struct NodeAngles {
   double i_deg;      // I: inclination of the lunar orbit to the equator
@@ -43,5 +47,9 @@ struct NodalFactor {
 };
 
 NodalFactor nodal_factor(NodalRule rule, const NodeAngles& angles);
+
+// Every rule at once (indexed by the enum value): one evaluation per time
+// serves all constituents.
+std::array<NodalFactor, kNodalRuleCount> nodal_factors(const NodeAngles& angles);
 
 }  // namespace strandline::tide

@@ -17,10 +17,10 @@ TidePredictor::TidePredictor(const ConstituentSet& set) : set_(set) {
 double TidePredictor::level_m(TimeS time_s) const {
   constexpr double kRad = std::numbers::pi / 180.0;
   const AstronomicalArguments a = astronomical_arguments(time_s);
-  const NodeAngles nodes = node_angles(a);
+  const auto nodal = nodal_factors(node_angles(a));
   double level = set_.z0_m + set_.z0_rate_m_per_yr * (time_s - set_.z0_epoch_s) / kSecondsPerJulianYear;
   for (const Term& t : terms_) {
-    const NodalFactor nf = constituent_nodal_factor(*t.definition, nodes);
+    const NodalFactor nf = constituent_nodal_factor(*t.definition, nodal);
     const double v = equilibrium_argument_deg(*t.definition, a);
     level += nf.f * t.amplitude_m * std::cos((v + nf.u_deg - t.phase_deg) * kRad);
   }

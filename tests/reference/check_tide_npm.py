@@ -15,6 +15,12 @@ Service), with GeoNames-derived locations (CC BY 4.0); see the package's NOTICE.
    `strandline tide-predict` against the npm predictor, using only constituents
    both know. Targets: RMS difference <= 5 mm, max <= 2 cm per station.
 
+Measured (Dec 2026): f within 1e-5 and V + u within 0.001 deg for every common
+constituent; station differences ~0.03 mm RMS, < 0.2 mm max. The RMS is the
+0.1 mm rounding of our CSV (0.1/sqrt(12) = 0.029 mm); the remainder comes from
+the npm predictor holding f and u for 24 h and advancing V from the start of the
+span with tabulated speeds, where we evaluate everything at each time.
+
 Known convention differences, handled explicitly rather than hidden:
   - M3: we follow Schureman (V = 3T - 3s + 3h); the npm table (IHO/Foreman
     extended Doodson numbers) adds 180 deg. The npm side is given g + 180 so the
