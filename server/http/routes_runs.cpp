@@ -103,7 +103,8 @@ void get_series(Context& c) {
                   {{"parameter", "format"}});
   const std::string run_text = c.query("run").value_or("latest");
   const std::int64_t run_id = run_text == "latest" ? 0 : positive_id(run_text, "run");
-  auto result = c.service.store.result(site.id, transect, run_id);
+  using Text = store::Store::SeriesText;
+  auto result = c.service.store.result(site.id, transect, run_id, format == "csv" ? Text::csv : Text::json);
   if (!result) {
     bool defined = false;
     for (const auto& t : c.service.store.transects(site.id)) defined = defined || t.id == transect;
@@ -116,10 +117,7 @@ void get_series(Context& c) {
   if (format == "csv") {
     reply_with_etag(c, result->sha256 + "-csv", std::move(result->rows_csv), "text/csv");
   } else {
-    std::string body = "{\"site\":" + nlohmann::json(site.id).dump() + ",\"transect_id\":" +
-                       nlohmann::json(transect).dump() + ",\"run_id\":" + std::to_string(result->run_id) +
-                       ",\"rows\":" + result->rows_json + "}";
-    reply_with_etag(c, result->sha256 + "-json", std::move(body), "application/json");
+    reply_with_etag(c, result->sha256 + "-json", std::move(result->rows_json), "application/json");
   }
 }
 

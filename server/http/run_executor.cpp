@@ -136,9 +136,12 @@ RunOutput execute_run(store::Store& store, const store::RunInfo& run, const std:
     r.transect_id = t.id;
     nlohmann::json rows = nlohmann::json::array();
     for (std::size_t i = t.begin; i < t.end; ++i) rows.push_back(cleaned_row_json(table, i));
-    r.rows_json = rows.dump();
+    const std::string rows_text = rows.dump();
+    r.sha256 = store::sha256_hex(rows_text);
+    // Stored as the reply document, so a series read sends it without rebuilding it.
+    r.rows_json = "{\"site\":" + nlohmann::json(run.site_id).dump() + ",\"transect_id\":" + nlohmann::json(t.id).dump() +
+                  ",\"run_id\":" + std::to_string(run.id) + ",\"rows\":" + rows_text + "}";
     r.rows_csv = rows_csv(table, t);
-    r.sha256 = store::sha256_hex(r.rows_json);
     r.summary = transect_summary(table, static_cast<std::size_t>(&t - table.transects.data()), SummaryOptions{});
     output.results.push_back(std::move(r));
     transect_ids.push_back(t.id);

@@ -86,7 +86,8 @@ void Context::reply(int status, const nlohmann::json& body) {
 
 void Context::reply_text(int status, std::string body, const std::string& content_type) {
   res.status = status;
-  res.set_content(std::move(body), content_type.c_str());
+  res.body = std::move(body);  // series replies are large: no copy
+  res.set_header("Content-Type", content_type);
 }
 
 store::Site Context::site_or_404(const std::string& site_id) const {

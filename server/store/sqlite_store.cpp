@@ -347,15 +347,18 @@ TransectResult read_result(const Statement& q, bool with_rows) {
 }  // namespace
 
 std::optional<TransectResult> SqliteStore::result(const std::string& site_id, const std::string& transect_id,
-                                                  std::int64_t run_id) {
+                                                  std::int64_t run_id, SeriesText text) {
   auto db = reader();
   const auto key = site_key(*db, site_id);
-  auto q = db->prepare(
-      "SELECT seq, run_id, transect_id, summary, sha256, rows_json, rows_csv FROM results "
-      "WHERE site_key = ? AND transect_id = ? AND (? = 0 OR run_id = ?) ORDER BY run_id DESC LIMIT 1");
+  const std::string column = text == SeriesText::json ? "rows_json" : "rows_csv";
+  auto q = db->prepare("SELECT seq, run_id, transect_id, summary, sha256, " + column +
+                       " FROM results WHERE site_key = ? AND transect_id = ? AND (? = 0 OR run_id = ?) "
+                       "ORDER BY run_id DESC LIMIT 1");
   q.bind(1, key).bind(2, transect_id).bind(3, run_id).bind(4, run_id);
   if (!q.step()) return std::nullopt;
-  return read_result(q, true);
+  TransectResult r = read_result(q, false);
+  (text == SeriesText::json ? r.rows_json : r.rows_csv) = q.text(5);
+  return r;
 }
 
 std::vector<TransectResult> SqliteStore::latest_summaries(const std::string& site_id) {

@@ -156,10 +156,10 @@ struct TransectResult {
   std::int64_t seq = 0;  // change cursor position
   std::int64_t run_id = 0;
   std::string transect_id;
-  std::string rows_json;  // JSON array of row objects
+  std::string rows_json;  // the series reply document: {"site","transect_id","run_id","rows":[...]}
   std::string rows_csv;   // the same rows as CSV with a header
   nlohmann::json summary;
-  std::string sha256;     // of rows_json: the ETag
+  std::string sha256;     // of the rows alone (not the run id): the ETag and change test
 };
 
 struct ApiKey {
@@ -233,9 +233,11 @@ class Store {
   // Runs left queued or running by a previous process become failed.
   virtual int fail_interrupted_runs() = 0;
 
-  // `run_id` 0 = the latest finished run containing the transect.
+  // `run_id` 0 = the latest finished run containing the transect. Only the
+  // text asked for is read (series replies are large).
+  enum class SeriesText { json, csv };
   virtual std::optional<TransectResult> result(const std::string& site_id, const std::string& transect_id,
-                                               std::int64_t run_id) = 0;
+                                               std::int64_t run_id, SeriesText text) = 0;
   // The latest result of every transect (summaries only; rows left empty).
   virtual std::vector<TransectResult> latest_summaries(const std::string& site_id) = 0;
   // Results whose content changed, with seq > since, oldest first, at most `limit`.

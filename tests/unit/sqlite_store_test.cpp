@@ -163,8 +163,8 @@ TEST_F(StoreTest, ResultsAreVersionedByRunAndChangesSkipIdenticalResults) {
   store_->finish_run(r1, {{"k", 1}}, {{0, r1, "T1", "[1]", "a\n1\n", {}, "h1"}, {0, r1, "T2", "[2]", "a\n2\n", {}, "h2"}});
   const auto r2 = store_->create_run(run);
   store_->finish_run(r2, {}, {{0, r2, "T1", "[1]", "a\n1\n", {}, "h1"}, {0, r2, "T2", "[3]", "a\n3\n", {}, "h3"}});
-  EXPECT_EQ(store_->result("s1", "T2", 0)->rows_json, "[3]");
-  EXPECT_EQ(store_->result("s1", "T2", r1)->rows_json, "[2]");
+  EXPECT_EQ(store_->result("s1", "T2", 0, Store::SeriesText::json)->rows_json, "[3]");
+  EXPECT_EQ(store_->result("s1", "T2", r1, Store::SeriesText::json)->rows_json, "[2]");
   EXPECT_EQ(store_->run(r1)->state, "done");
   const auto all = store_->changes("s1", 0, 100);
   ASSERT_EQ(all.size(), 3u);  // T1 and T2 of run 1, T2 of run 2 (T1 unchanged in run 2)
