@@ -17,6 +17,9 @@ namespace {
 
 constexpr double kRad = std::numbers::pi / 180.0;
 constexpr double kDeg = 180.0 / std::numbers::pi;
+// Above this the standard errors are inflated a hundredfold or more over an
+// orthogonal design: the record cannot tell the constituents apart.
+constexpr double kMaxCondition = 100.0;
 
 struct Admitted {
   const ConstituentDefinition* definition;
@@ -107,46 +110,69 @@ HarmonicFitResult fit_harmonics(const std::vector<TimeS>& times_s, const std::ve
     throw InputError(source + ": " + std::to_string(n) + " samples are too few for " + std::to_string(p) +
                      " unknowns");
 
-  // Columns: mean, [rate per year], then f cos(V+u), f sin(V+u) per constituent.
+  // Columns: mean, [rate per year], then f cos(V+u), f sin(V+u) per constituent,
+  // and the levels as a last column. Sequential Householder QR over blocks of
+  // rows keeps memory at O(block * p) for decades of gauge samples: the final
+  // triangle [[R, z], [0, rho]] gives x = R^-1 z and the residual sum of squares rho^2.
   const TimeS epoch = 0.5 * (first + last);
-  Eigen::MatrixXd a(n, p);
-  Eigen::VectorXd y(n);
-  for (std::size_t i = 0; i < n; ++i) {
-    const AstronomicalArguments astro = astronomical_arguments(times_s[i]);
-    const auto nodal = nodal_factors(node_angles(astro));
-    a(i, 0) = 1.0;
-    if (options.fit_rate) a(i, 1) = (times_s[i] - epoch) / kSecondsPerJulianYear;
-    for (std::size_t j = 0; j < admitted.size(); ++j) {
-      const ConstituentDefinition& d = *admitted[j].definition;
-      const NodalFactor nf = constituent_nodal_factor(d, nodal);
-      const double arg = (equilibrium_argument_deg(d, astro) + nf.u_deg) * kRad;
-      a(i, base + 2 * j) = nf.f * std::cos(arg);
-      a(i, base + 2 * j + 1) = nf.f * std::sin(arg);
+  const int q = p + 1;
+  constexpr std::size_t kBlockRows = 4096;
+  Eigen::MatrixXd triangle(0, q);
+  for (std::size_t begin = 0; begin < n; begin += kBlockRows) {
+    const std::size_t rows = std::min(kBlockRows, n - begin);
+    Eigen::MatrixXd block(triangle.rows() + static_cast<Eigen::Index>(rows), q);
+    block.topRows(triangle.rows()) = triangle;
+    for (std::size_t k = 0; k < rows; ++k) {
+      const std::size_t i = begin + k;
+      const Eigen::Index row = triangle.rows() + static_cast<Eigen::Index>(k);
+      const AstronomicalArguments astro = astronomical_arguments(times_s[i]);
+      const auto nodal = nodal_factors(node_angles(astro));
+      block(row, 0) = 1.0;
+      if (options.fit_rate) block(row, 1) = (times_s[i] - epoch) / kSecondsPerJulianYear;
+      for (std::size_t j = 0; j < admitted.size(); ++j) {
+        const ConstituentDefinition& d = *admitted[j].definition;
+        const NodalFactor nf = constituent_nodal_factor(d, nodal);
+        const double arg = (equilibrium_argument_deg(d, astro) + nf.u_deg) * kRad;
+        block(row, base + 2 * j) = nf.f * std::cos(arg);
+        block(row, base + 2 * j + 1) = nf.f * std::sin(arg);
+      }
+      block(row, p) = levels_m[i];
     }
-    y(i) = levels_m[i];
+    const Eigen::HouseholderQR<Eigen::MatrixXd> qr(block);
+    const Eigen::Index keep = std::min<Eigen::Index>(block.rows(), q);
+    triangle = qr.matrixQR().topRows(keep).triangularView<Eigen::Upper>();
   }
 
-  const Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(a);
-  if (qr.rank() < p)
-    throw InputError(source + ": the samples do not determine all " + std::to_string(p) +
-                     " unknowns (gaps alias some constituents); give a shorter --constituents list");
-  const Eigen::VectorXd x = qr.solve(y);
-  const Eigen::VectorXd residual = y - a * x;
+  const Eigen::MatrixXd r = triangle.topLeftCorner(p, p);
+  // Collinearity of the columns (scaled to unit norm, so units do not matter):
+  // the condition number of the equilibrated design, from R's singular values.
+  const Eigen::VectorXd column_norms = r.colwise().norm().transpose();
+  if (!(column_norms.minCoeff() > 0))
+    throw InputError(source + ": the samples do not determine all " + std::to_string(p) + " unknowns");
+  const Eigen::JacobiSVD<Eigen::MatrixXd> svd(r * column_norms.cwiseInverse().asDiagonal());
+  const double condition = svd.singularValues()(0) / svd.singularValues()(p - 1);
+  if (!(condition < kMaxCondition)) {
+    char text[200];
+    std::snprintf(text, sizeof text,
+                  ": the samples do not determine all %d unknowns (condition number %.3g): the sampling or the "
+                  "gaps alias some constituents; give a shorter --constituents list",
+                  p, condition);
+    throw InputError(source + text);
+  }
+  const Eigen::VectorXd x = r.triangularView<Eigen::Upper>().solve(triangle.col(p).head(p));
+  const double rss = triangle(p, p) * triangle(p, p);
   const double dof = static_cast<double>(n - p);
-  const double sigma2 = residual.squaredNorm() / dof;
-  // Covariance sigma^2 (A^T A)^-1 from the triangular factor: A P = Q R.
-  const Eigen::MatrixXd r = qr.matrixR().topLeftCorner(p, p).triangularView<Eigen::Upper>();
+  const double sigma2 = rss / dof;
+  // Covariance sigma^2 (A^T A)^-1 = sigma^2 R^-1 R^-T.
   const Eigen::MatrixXd r_inv = r.triangularView<Eigen::Upper>().solve(Eigen::MatrixXd::Identity(p, p));
-  const Eigen::MatrixXd cov_permuted = r_inv * r_inv.transpose() * sigma2;
-  const auto perm = qr.colsPermutation();
-  const Eigen::MatrixXd cov = perm * cov_permuted * perm.transpose();
+  const Eigen::MatrixXd cov = r_inv * r_inv.transpose() * sigma2;
 
   ConstituentSet& set = result.constants;
   set.datum = options.datum;
   set.z0_m = x(0);
   set.z0_rate_m_per_yr = options.fit_rate ? x(1) : 0.0;
   set.z0_epoch_s = epoch;
-  set.residual_std_m = std::sqrt(residual.squaredNorm() / dof);
+  set.residual_std_m = std::sqrt(sigma2);
   for (std::size_t j = 0; j < admitted.size(); ++j) {
     const int ic = base + 2 * static_cast<int>(j), is = ic + 1;
     const double c = x(ic), s = x(is);  // H cos g, H sin g
@@ -178,6 +204,7 @@ HarmonicFitResult fit_harmonics(const std::vector<TimeS>& times_s, const std::ve
                 {"rayleigh_factor", options.rayleigh_factor},
                 {"fit_rate", options.fit_rate},
                 {"z0_se_m", std::sqrt(cov(0, 0))},
+                {"condition_number", condition},
                 {"unresolved", unresolved}};
   if (options.fit_rate) set.record["z0_rate_se_m_per_yr"] = std::sqrt(cov(1, 1));
   return result;

@@ -39,8 +39,10 @@ struct HarmonicFitResult {
 const std::vector<std::string>& default_fit_constituents();
 
 // Throws InputError (with `source` as the file name) for fewer samples than
-// unknowns, a record that resolves no constituent, an unknown name or a singular
-// system; std::invalid_argument for unequal lengths.
+// unknowns, a record that resolves no constituent, an unknown name, or a design
+// whose columns (scaled to unit norm) have a condition number of 100 or more
+// (sampling or gaps alias constituents; a well-sampled record gives ~1.1);
+// std::invalid_argument for unequal lengths.
 HarmonicFitResult fit_harmonics(const std::vector<TimeS>& times_s, const std::vector<double>& levels_m,
                                 const HarmonicFitOptions& options, const std::string& source);
 

@@ -134,3 +134,31 @@ TEST(TideFit, FittedRateOfMeanLevel) {
 
 }  // namespace
 }  // namespace strandline::tide
+
+namespace strandline::tide {
+namespace {
+
+TEST(TideFit, SamplingAliasedToTheMeanIsAClearError) {
+  // One sample per M2 period: the M2 column is constant up to the slow nodal
+  // drift, indistinguishable from the mean level.
+  ConstituentSet s;
+  s.constituents.push_back({"M2", 0.5, 10.0, kUnknown, kUnknown, std::nullopt});
+  const TidePredictor p(s);
+  const double period_s = 360.0 / speed_deg_per_h(*find_constituent("M2")) * 3600.0;
+  std::vector<double> t, h;
+  for (int k = 0; k < 120; ++k) {
+    t.push_back(1.6e9 + k * period_s);
+    h.push_back(p.level_m(t.back()));
+  }
+  HarmonicFitOptions o;
+  o.constituents = {"M2"};
+  try {
+    fit_harmonics(t, h, o, "gauge.csv");
+    FAIL() << "expected an error";
+  } catch (const InputError& e) {
+    EXPECT_NE(std::string(e.what()).find("do not determine"), std::string::npos) << e.what();
+  }
+}
+
+}  // namespace
+}  // namespace strandline::tide
