@@ -2,6 +2,7 @@
 
 #include <cmath>
 #include <cstdio>
+#include <filesystem>
 #include <mutex>
 
 #include <cpl_conv.h>
@@ -13,11 +14,20 @@ namespace strandline::geo {
 
 void ensure_gdal_registered() {
   static std::once_flag once;
-  std::call_once(once, [] { GDALAllRegister(); });
+  std::call_once(once, [] {
+    GDALAllRegister();
+    // GDAL's messages reach the user inside ours (CPLGetLastErrorMsg), with the
+    // file, layer and feature named; printing them again would only add noise.
+    CPLSetErrorHandler(CPLQuietErrorHandler);
+  });
 }
 
 DatasetPtr open_vector(const std::string& path, const std::string& what) {
   ensure_gdal_registered();
+  std::error_code ec;
+  // GDAL virtual paths (/vsizip/, /vsicurl/, ...) are left to GDAL.
+  if (path.rfind("/vsi", 0) != 0 && !std::filesystem::exists(path, ec))
+    throw InputError(what + " " + path + ": no such file");
   CPLErrorReset();
   GDALDataset* ds = GDALDataset::Open(path.c_str(), GDAL_OF_VECTOR | GDAL_OF_READONLY, nullptr, nullptr, nullptr);
   if (!ds) {

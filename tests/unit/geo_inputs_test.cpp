@@ -105,7 +105,7 @@ TEST_F(GeoInputs, GeographicTransectsGetUtmWorkCrsReported) {
 }
 
 TEST_F(GeoInputs, MissingFileIsNamed) {
-  expect_input_error([&] { read_transects((dir_ / "absent.gpkg").string(), {}); }, {"absent.gpkg", "cannot open"});
+  expect_input_error([&] { read_transects((dir_ / "absent.gpkg").string(), {}); }, {"absent.gpkg", "no such file"});
 }
 
 TEST_F(GeoInputs, MissingIdAttributeNamesLayerAndField) {
