@@ -167,6 +167,28 @@ json build() {
       {"parameters", json::array({site, query_param("since", "cursor returned by the previous call (0 = from the start)"),
                                   query_param("limit", "at most this many items", integer)})},
       {"responses", merge({{"200", json_response("Changes and the next cursor", "Changes")}}, errors({400, 401, 404, 503}))}};
+  paths["/v1/sites/{site}/export"]["get"] = {
+      {"summary", "Cleaned points and the transect layer with summaries: GeoPackage (site CRS, both layers) or GeoJSON (WGS 84 lon/lat, one layer)"},
+      {"security", read_security},
+      {"parameters", json::array({site,
+                                  query_param("format", "gpkg (default) or geojson", {{"type", "string"}, {"enum", {"gpkg", "geojson"}}}),
+                                  query_param("run", "latest (default: each transect's latest result) or a run id"),
+                                  query_param("layer", "geojson only: points (default) or transects",
+                                              {{"type", "string"}, {"enum", {"points", "transects"}}})})},
+      {"responses", merge({{"200", {{"description", "The layers as a file"},
+                                    {"content", {{"application/geopackage+sqlite3", {{"schema", {{"type", "string"}, {"format", "binary"}}}}},
+                                                 {"application/geo+json", {{"schema", ref("FeatureCollection")}}}}}}}},
+                          errors({400, 401, 404, 503}))}};
+  {
+    json shorelines = upload_operation(
+        "Upload shoreline polylines (GeoJSON; attributes time, sensor, image_id[, cloud_fraction, georef_rmse_m]); "
+        "intersected with the site's transects and stored as observations, idempotent by (transect, image id)",
+        "FeatureCollection");
+    shorelines["requestBody"] = {{"required", true},
+                                 {"content", {{"application/geo+json", {{"schema", ref("FeatureCollection")}}},
+                                              {"application/json", {{"schema", ref("FeatureCollection")}}}}}};
+    paths["/v1/sites/{site}/shorelines"]["post"] = shorelines;
+  }
 
   json schemas;
   schemas["Problem"] = {{"type", "object"},

@@ -12,7 +12,7 @@ namespace {
 
 std::vector<Route> all_routes() {
   std::vector<Route> out;
-  for (auto part : {meta_routes(), site_routes(), upload_routes(), run_routes()})
+  for (auto part : {meta_routes(), site_routes(), upload_routes(), run_routes(), geodata_routes()})
     out.insert(out.end(), part.begin(), part.end());
   return out;
 }

@@ -52,6 +52,7 @@ std::vector<Route> site_routes();
 std::vector<Route> upload_routes();
 std::vector<Route> run_routes();
 std::vector<Route> meta_routes();
+std::vector<Route> geodata_routes();
 
 struct Service::Impl {
   Impl(store::Store& store, ServiceOptions options);
