@@ -312,6 +312,30 @@ TEST_F(HttpGeodata, BadShorelinesAre422NamingTheFeature) {
   EXPECT_TRUE(store_->live_observations("cove", {}).empty());
 }
 
+TEST_F(HttpGeodata, InvalidCrossingRowsFollowTheObservationRules) {
+  // A sensor missing from the sensor table makes both crossings of image U invalid rows.
+  json unknown = shoreline_feature(kOriginY - 140, "IMG-U", "2020-01-03T10:00:00Z");
+  unknown["properties"]["sensor"] = "no-such-sensor";
+  const std::string body =
+      utm_collection(json::array({shoreline_feature(kOriginY - 150, "IMG-A", "2020-01-01T10:00:00Z"), unknown})).dump();
+  auto rejected = post("/v1/sites/cove/shorelines", body, "application/geo+json");
+  expect_problem(rejected, 422, "/problems/invalid-rows");
+  const auto rows = json::parse(rejected->body)["rows"];
+  ASSERT_EQ(rows.size(), 2u) << rows.dump();
+  for (const auto& r : rows) {
+    EXPECT_EQ(r["image_id"], "IMG-U");
+    EXPECT_EQ(r["field"], "sensor");
+  }
+  EXPECT_TRUE(store_->live_observations("cove", {}).empty());
+
+  auto skipped = post("/v1/sites/cove/shorelines?on_invalid=skip", body, "application/geo+json");
+  ASSERT_TRUE(skipped && skipped->status == 201) << skipped->body;
+  const auto report = json::parse(skipped->body);
+  EXPECT_EQ(report["inserted"], 2);
+  EXPECT_EQ(report["rejected"], 2);
+  EXPECT_EQ(store_->live_observations("cove", {}).size(), 2u);
+}
+
 TEST_F(HttpGeodata, BothRoutesAreInTheOpenApiDocument) {
   auto doc = client().Get("/v1/openapi.json");
   ASSERT_TRUE(doc && doc->status == 200);
