@@ -93,6 +93,9 @@ RunOutput execute_run(store::Store& store, const store::RunInfo& run, const std:
   inputs.sensors = &sensors;
   for (const auto& s : store.live_slopes(run.site_id)) inputs.slopes.per_transect[s.transect_id] = {s.slope, s.slope_sigma};
   if (known(site->default_slope)) inputs.slopes.default_value = SlopeValue{site->default_slope, kUnknown};
+  // As `--slope auto` with `--slopes` in the batch: stored slopes are kept, every other transect
+  // gets the spectral estimate; where it is not identifiable, the site's default (flagged) or none.
+  inputs.slopes.estimate = true;
 
   const auto* wl_step = dynamic_cast<const WaterLevelStep*>(pipeline.find("water_level"));
   const double gauge_sigma_m = wl_step ? wl_step->params().sigma_m : WaterLevelStep::Params{}.sigma_m;
