@@ -1,12 +1,13 @@
 #include "server/http/demo_site.h"
 
-#include "demo_data/synthetic/synthetic_site.h"
+#include "corrections/tide/constituent_file.h"
+#include "demo_data/synthetic/demo_tide.h"
 #include "server/store/api_keys.h"
 
 namespace strandline::http {
 
 std::int64_t load_demo_site(store::Store& store, RunManager& runs) {
-  const synthetic::Site demo = synthetic::generate_site(synthetic::SiteParams::defaults());
+  const synthetic::Site demo = synthetic::generate_site(synthetic::demo_site_params());
 
   store::Site site;
   site.id = kDemoSiteId;
@@ -43,6 +44,12 @@ std::int64_t load_demo_site(store::Store& store, RunManager& runs) {
   for (std::size_t i = 0; i < demo.gauge_times_s.size(); ++i)
     levels.push_back({static_cast<std::int64_t>(i + 2), demo.gauge_times_s[i], demo.gauge_levels_m[i]});
   store.add_water_levels(site.id, meta("water levels", levels.size()), levels);
+
+  // The site's harmonic constants: the prediction covers the images before the gauge record.
+  const std::string tide_document = tide::constituent_json(synthetic::demo_tide_constituents()).dump(2);
+  store::UploadMeta tide_meta = meta("tide constituents", 1);
+  tide_meta.sha256 = store::sha256_hex(tide_document);
+  store.add_document(site.id, "tide_constituents", tide_meta, tide_document);
 
   std::vector<store::WaveRow> waves;
   for (std::size_t i = 0; i < demo.waves.size(); ++i)
