@@ -242,7 +242,8 @@ json build() {
                                        {"rows", {{"type", "array"}, {"items", {{"type", "object"}, {"description", "cleaned row (formats reference)"}}}}}}}};
   schemas["Summary"] = {{"type", "object"},
                         {"properties", {{"site", str}, {"latest_run", {{"type", "integer"}, {"nullable", true}}},
-                                        {"transects", {{"type", "array"}, {"items", {{"type", "object"}}}}}}}};
+                                        {"transects", {{"type", "array"}, {"items", {{"type", "object"}}}}},
+                                        {"cautions", {{"type", "array"}, {"items", str}}}}}};
   schemas["Changes"] = {{"type", "object"},
                         {"properties", {{"site", str}, {"cursor", str}, {"more", {{"type", "boolean"}}},
                                         {"items", {{"type", "array"}, {"items", {{"type", "object"}, {"properties", {{"transect_id", str}, {"run_id", integer}, {"etag", str}, {"series", str}}}}}}}}}};

@@ -1,5 +1,6 @@
 // Runs and their results: series, summary, changes.
 #include "corrections/core/errors.h"
+#include "qc/cautions.h"
 #include "server/http/run_executor.h"
 #include "server/http/service_internal.h"
 #include "server/store/api_keys.h"
@@ -132,7 +133,8 @@ void get_summary(Context& c) {
   const auto latest = c.service.store.latest_done_run(site.id);
   nlohmann::json body = {{"site", site.id},
                          {"latest_run", latest ? nlohmann::json(latest->id) : nlohmann::json()},
-                         {"transects", transects}};
+                         {"transects", transects},
+                         {"cautions", standard_cautions()}};
   std::string text = body.dump();
   reply_with_etag(c, store::sha256_hex(text).substr(0, 32), std::move(text), "application/json");
 }

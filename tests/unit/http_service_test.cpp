@@ -316,6 +316,8 @@ TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
   auto summary = client().Get("/v1/sites/cove/summary");
   ASSERT_TRUE(summary && summary->status == 200);
   EXPECT_EQ(json::parse(summary->body)["transects"].size(), 2u);
+  // The summary carries the cautions, as the batch summary does.
+  EXPECT_GE(json::parse(summary->body)["cautions"].size(), 3u);
 
   // New points on T2 only: the next default run covers T2 alone.
   const std::string more = "transect_id,time,chainage_m,sensor,image_id\nT2,2020-01-02T12:00:00Z,170,sentinel2a,LATE\n";
