@@ -1,5 +1,7 @@
 // Uploads, retractions and the live inputs of runs (part of SqliteStore).
 #include <algorithm>
+#include <functional>
+#include <optional>
 #include <set>
 
 #include "corrections/core/time_utc.h"
@@ -89,6 +91,66 @@ struct Outcome {
 
 std::string time_key(TimeS t) { return format_time_utc(t); }
 
+// How one keyed input kind (water levels and waves by time, slopes by transect)
+// is stored: the shared loop is keyed_upload below.
+template <class Row>
+struct KeyedKind {
+  const char* kind;
+  std::string insert_sql;    // parameters: 1 upload id, 2 site key, 3.. the row
+  std::string existing_sql;  // parameters: 1 site key, 2.. the row's key
+  std::function<void(Statement&, const Row&)> bind_row;  // from parameter 3
+  std::function<void(Statement&, const Row&)> bind_key;  // from parameter 2
+  std::function<bool(const Statement&, const Row&)> same_as_stored;
+  std::function<std::string(const Row&)> report_key;
+  std::function<std::pair<std::string, std::string>(const Row&)> conflict;  // field, reason
+  // The transect a row touches; none for site-wide inputs (a change to every transect).
+  std::function<std::optional<std::string>(const Row&)> transect;
+};
+
+// One transaction: insert every row whose key has no live row; a row meeting a
+// stored one is a duplicate when the values agree and a conflict otherwise, and
+// any conflict rolls the whole upload back.
+template <class Row>
+UploadResult keyed_upload(Connection& db, const std::string& site_id, const UploadMeta& meta,
+                          const std::vector<Row>& rows, const KeyedKind<Row>& k) {
+  Transaction tx(db);
+  const auto key = site_key(db, site_id);
+  Outcome out;
+  out.result.upload_id = begin_upload(db, key, k.kind, meta);
+  out.result.received = meta.received;
+  out.result.rejected = meta.rejected;
+  auto insert = db.prepare(k.insert_sql);
+  auto existing = db.prepare(k.existing_sql);
+  std::set<std::optional<std::string>> touched;
+  for (const auto& r : rows) {
+    insert.bind(1, out.result.upload_id).bind(2, key);
+    k.bind_row(insert, r);
+    insert.run();
+    insert.reset();
+    if (db.changes() > 0) {
+      ++out.result.inserted;
+      touched.insert(k.transect(r));
+      continue;
+    }
+    existing.bind(1, key);
+    k.bind_key(existing, r);
+    existing.step();
+    const bool same = k.same_as_stored(existing, r);
+    existing.reset();
+    if (same) {
+      out.duplicate(r.line, k.report_key(r));
+    } else {
+      auto [field, reason] = k.conflict(r);
+      out.conflict(r.line, k.report_key(r), std::move(field), std::move(reason));
+    }
+  }
+  out.throw_if_conflicts();
+  end_upload(db, out.result);
+  for (const auto& t : touched) record_change(db, key, t, out.result.upload_id);
+  tx.commit();
+  return out.result;
+}
+
 }  // namespace
 
 UploadResult SqliteStore::add_observations(const std::string& site_id, const UploadMeta& meta,
@@ -160,125 +222,67 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
 
 UploadResult SqliteStore::add_water_levels(const std::string& site_id, const UploadMeta& meta,
                                            const std::vector<WaterLevelRow>& rows) {
-  std::lock_guard lock(writer_mutex_);
-  Transaction tx(*writer_);
-  const auto key = site_key(*writer_, site_id);
-  Outcome out;
-  out.result.upload_id = begin_upload(*writer_, key, "water_levels", meta);
-  out.result.received = meta.received;
-  out.result.rejected = meta.rejected;
-  auto insert = writer_->prepare(
+  static const KeyedKind<WaterLevelRow> kind{
+      "water_levels",
       "INSERT INTO water_levels(upload_id, site_key, time_s, level_m) VALUES(?, ?, ?, ?) "
-      "ON CONFLICT(site_key, time_s) WHERE live = 1 DO NOTHING");
-  auto existing = writer_->prepare("SELECT level_m FROM water_levels WHERE site_key = ? AND time_s = ? AND live = 1");
-  for (const auto& r : rows) {
-    insert.bind(1, out.result.upload_id).bind(2, key).bind(3, r.time_s).bind(4, r.level_m);
-    insert.run();
-    insert.reset();
-    if (writer_->changes() > 0) {
-      ++out.result.inserted;
-      continue;
-    }
-    existing.bind(1, key).bind(2, r.time_s);
-    existing.step();
-    const bool same = same_value(existing.real(0), r.level_m);
-    existing.reset();
-    if (same)
-      out.duplicate(r.line, time_key(r.time_s));
-    else
-      out.conflict(r.line, time_key(r.time_s), "level_m", "a different water level is stored for this time");
-  }
-  out.throw_if_conflicts();
-  end_upload(*writer_, out.result);
-  if (out.result.inserted > 0) record_change(*writer_, key, std::nullopt, out.result.upload_id);
-  tx.commit();
-  return out.result;
+      "ON CONFLICT(site_key, time_s) WHERE live = 1 DO NOTHING",
+      "SELECT level_m FROM water_levels WHERE site_key = ? AND time_s = ? AND live = 1",
+      [](Statement& q, const WaterLevelRow& r) { q.bind(3, r.time_s).bind(4, r.level_m); },
+      [](Statement& q, const WaterLevelRow& r) { q.bind(2, r.time_s); },
+      [](const Statement& q, const WaterLevelRow& r) { return same_value(q.real(0), r.level_m); },
+      [](const WaterLevelRow& r) { return time_key(r.time_s); },
+      [](const WaterLevelRow&) {
+        return std::pair<std::string, std::string>("level_m", "a different water level is stored for this time");
+      },
+      [](const WaterLevelRow&) { return std::optional<std::string>(); }};
+  std::lock_guard lock(writer_mutex_);
+  return keyed_upload(*writer_, site_id, meta, rows, kind);
 }
 
 UploadResult SqliteStore::add_waves(const std::string& site_id, const UploadMeta& meta,
                                     const std::vector<WaveRow>& rows) {
-  std::lock_guard lock(writer_mutex_);
-  Transaction tx(*writer_);
-  const auto key = site_key(*writer_, site_id);
-  Outcome out;
-  out.result.upload_id = begin_upload(*writer_, key, "waves", meta);
-  out.result.received = meta.received;
-  out.result.rejected = meta.rejected;
-  auto insert = writer_->prepare(
+  static const KeyedKind<WaveRow> kind{
+      "waves",
       "INSERT INTO waves(upload_id, site_key, time_s, hs_m, tp_s, dir_deg, depth_m) VALUES(?, ?, ?, ?, ?, ?, ?) "
-      "ON CONFLICT(site_key, time_s) WHERE live = 1 DO NOTHING");
-  auto existing = writer_->prepare(
-      "SELECT hs_m, tp_s, dir_deg, depth_m FROM waves WHERE site_key = ? AND time_s = ? AND live = 1");
-  for (const auto& r : rows) {
-    insert.bind(1, out.result.upload_id)
-        .bind(2, key)
-        .bind(3, r.time_s)
-        .bind(4, r.hs_m)
-        .bind(5, r.tp_s)
-        .bind(6, r.dir_deg)
-        .bind(7, r.depth_m);
-    insert.run();
-    insert.reset();
-    if (writer_->changes() > 0) {
-      ++out.result.inserted;
-      continue;
-    }
-    existing.bind(1, key).bind(2, r.time_s);
-    existing.step();
-    const bool same = same_value(existing.real(0), r.hs_m) && same_value(existing.real(1), r.tp_s) &&
-                      same_value(existing.real(2), r.dir_deg) && same_value(existing.real(3), r.depth_m);
-    existing.reset();
-    if (same)
-      out.duplicate(r.line, time_key(r.time_s));
-    else
-      out.conflict(r.line, time_key(r.time_s), "", "different wave conditions are stored for this time");
-  }
-  out.throw_if_conflicts();
-  end_upload(*writer_, out.result);
-  if (out.result.inserted > 0) record_change(*writer_, key, std::nullopt, out.result.upload_id);
-  tx.commit();
-  return out.result;
+      "ON CONFLICT(site_key, time_s) WHERE live = 1 DO NOTHING",
+      "SELECT hs_m, tp_s, dir_deg, depth_m FROM waves WHERE site_key = ? AND time_s = ? AND live = 1",
+      [](Statement& q, const WaveRow& r) {
+        q.bind(3, r.time_s).bind(4, r.hs_m).bind(5, r.tp_s).bind(6, r.dir_deg).bind(7, r.depth_m);
+      },
+      [](Statement& q, const WaveRow& r) { q.bind(2, r.time_s); },
+      [](const Statement& q, const WaveRow& r) {
+        return same_value(q.real(0), r.hs_m) && same_value(q.real(1), r.tp_s) && same_value(q.real(2), r.dir_deg) &&
+               same_value(q.real(3), r.depth_m);
+      },
+      [](const WaveRow& r) { return time_key(r.time_s); },
+      [](const WaveRow&) {
+        return std::pair<std::string, std::string>("", "different wave conditions are stored for this time");
+      },
+      [](const WaveRow&) { return std::optional<std::string>(); }};
+  std::lock_guard lock(writer_mutex_);
+  return keyed_upload(*writer_, site_id, meta, rows, kind);
 }
 
 UploadResult SqliteStore::add_slopes(const std::string& site_id, const UploadMeta& meta,
                                      const std::vector<SlopeRow>& rows) {
-  std::lock_guard lock(writer_mutex_);
-  Transaction tx(*writer_);
-  const auto key = site_key(*writer_, site_id);
-  Outcome out;
-  out.result.upload_id = begin_upload(*writer_, key, "slopes", meta);
-  out.result.received = meta.received;
-  out.result.rejected = meta.rejected;
-  auto insert = writer_->prepare(
+  static const KeyedKind<SlopeRow> kind{
+      "slopes",
       "INSERT INTO slopes(upload_id, site_key, transect_id, slope, slope_sigma) VALUES(?, ?, ?, ?, ?) "
-      "ON CONFLICT(site_key, transect_id) WHERE live = 1 DO NOTHING");
-  auto existing =
-      writer_->prepare("SELECT slope, slope_sigma FROM slopes WHERE site_key = ? AND transect_id = ? AND live = 1");
-  std::set<std::string> touched;
-  for (const auto& r : rows) {
-    insert.bind(1, out.result.upload_id).bind(2, key).bind(3, r.transect_id).bind(4, r.slope).bind(5, r.slope_sigma);
-    insert.run();
-    insert.reset();
-    if (writer_->changes() > 0) {
-      ++out.result.inserted;
-      touched.insert(r.transect_id);
-      continue;
-    }
-    existing.bind(1, key).bind(2, r.transect_id);
-    existing.step();
-    const bool same = same_value(existing.real(0), r.slope) && same_value(existing.real(1), r.slope_sigma);
-    existing.reset();
-    if (same)
-      out.duplicate(r.line, r.transect_id);
-    else
-      out.conflict(r.line, r.transect_id, "slope", "a different slope is stored for transect " + r.transect_id +
-                                                       " (retract its upload first)");
-  }
-  out.throw_if_conflicts();
-  end_upload(*writer_, out.result);
-  for (const auto& t : touched) record_change(*writer_, key, t, out.result.upload_id);
-  tx.commit();
-  return out.result;
+      "ON CONFLICT(site_key, transect_id) WHERE live = 1 DO NOTHING",
+      "SELECT slope, slope_sigma FROM slopes WHERE site_key = ? AND transect_id = ? AND live = 1",
+      [](Statement& q, const SlopeRow& r) { q.bind(3, r.transect_id).bind(4, r.slope).bind(5, r.slope_sigma); },
+      [](Statement& q, const SlopeRow& r) { q.bind(2, r.transect_id); },
+      [](const Statement& q, const SlopeRow& r) {
+        return same_value(q.real(0), r.slope) && same_value(q.real(1), r.slope_sigma);
+      },
+      [](const SlopeRow& r) { return r.transect_id; },
+      [](const SlopeRow& r) {
+        return std::pair<std::string, std::string>(
+            "slope", "a different slope is stored for transect " + r.transect_id + " (retract its upload first)");
+      },
+      [](const SlopeRow& r) { return std::optional<std::string>(r.transect_id); }};
+  std::lock_guard lock(writer_mutex_);
+  return keyed_upload(*writer_, site_id, meta, rows, kind);
 }
 
 UploadResult SqliteStore::add_document(const std::string& site_id, const std::string& kind, const UploadMeta& meta,
