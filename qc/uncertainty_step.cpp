@@ -55,7 +55,7 @@ void UncertaintyStep::process(SiteTable& table, std::size_t transect, const RunI
         sum2 += term * term;
       } else {
         table.add_flag(i, unknown_flag);
-        log.count(std::string(flag_info(unknown_flag).name));
+        log.count(flag_info(unknown_flag).name);
       }
     };
     add(s_sensor, Flag::sigma_sensor_unknown);

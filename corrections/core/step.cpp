@@ -14,7 +14,7 @@ nlohmann::json StepLog::to_json() const {
   return j;
 }
 
-std::int64_t StepLog::count_of(const std::string& key) const {
+std::int64_t StepLog::count_of(std::string_view key) const {
   auto it = counts_.find(key);
   return it == counts_.end() ? 0 : it->second;
 }

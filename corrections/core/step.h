@@ -15,6 +15,7 @@
 #include <map>
 #include <mutex>
 #include <string>
+#include <string_view>
 
 #include <nlohmann/json.hpp>
 
@@ -29,14 +30,18 @@ enum class StepScope { transect, site };
 // per key (last write wins) for computed thresholds and summaries.
 class StepLog {
  public:
-  void count(const std::string& key, std::int64_t n = 1) { counts_[key] += n; }
+  // Called per point on hot paths: a key already counted costs a lookup, no allocation.
+  void count(std::string_view key, std::int64_t n = 1) {
+    if (auto it = counts_.find(key); it != counts_.end()) it->second += n;
+    else counts_.emplace(std::string(key), n);
+  }
   void note(const std::string& key, nlohmann::json value) { notes_[key] = std::move(value); }
   void merge(const StepLog& other);
   nlohmann::json to_json() const;
-  std::int64_t count_of(const std::string& key) const;
+  std::int64_t count_of(std::string_view key) const;
 
  private:
-  std::map<std::string, std::int64_t> counts_;
+  std::map<std::string, std::int64_t, std::less<>> counts_;
   nlohmann::json notes_ = nlohmann::json::object();
 };
 
