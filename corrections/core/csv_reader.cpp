@@ -10,9 +10,11 @@ namespace strandline {
 CsvReader::CsvReader(std::istream& in, std::string name) : in_(in), name_(std::move(name)) {}
 
 bool CsvReader::next(std::vector<std::string>& fields) {
-  fields.clear();
   while (true) {
-    if (!std::getline(in_, buffer_)) return false;
+    if (!std::getline(in_, buffer_)) {
+      fields.clear();
+      return false;
+    }
     ++current_line_;
     if (first_) {
       first_ = false;
@@ -26,7 +28,15 @@ bool CsvReader::next(std::vector<std::string>& fields) {
   }
   record_line_ = current_line_;
 
-  std::string field;
+  // Fields reuse the strings (and their capacity) of the previous record.
+  std::size_t count = 0;
+  auto field_at = [&]() -> std::string& {
+    if (count == fields.size()) fields.emplace_back();
+    std::string& f = fields[count];
+    f.clear();
+    return f;
+  };
+  std::string* field = &field_at();
   std::size_t i = 0;
   bool in_quotes = false;
   bool was_quoted = false;
@@ -38,18 +48,18 @@ bool CsvReader::next(std::vector<std::string>& fields) {
           throw InputError(name_, record_line_, "", "", "unterminated quoted field");
         ++current_line_;
         if (!buffer_.empty() && buffer_.back() == '\r') buffer_.pop_back();
-        field += '\n';
+        *field += '\n';
         i = 0;
         continue;
       }
-      fields.push_back(std::move(field));
+      fields.resize(count + 1);
       return true;
     }
     const char c = buffer_[i];
     if (in_quotes) {
       if (c == '"') {
         if (i + 1 < buffer_.size() && buffer_[i + 1] == '"') {
-          field += '"';
+          *field += '"';
           i += 2;
           continue;
         }
@@ -57,24 +67,26 @@ bool CsvReader::next(std::vector<std::string>& fields) {
         ++i;
         if (i < buffer_.size() && buffer_[i] != ',')
           throw InputError(name_, record_line_, "", "",
-                           "unexpected text after a closing quote in field " +
-                               std::to_string(fields.size() + 1));
+                           "unexpected text after a closing quote in field " + std::to_string(count + 1));
         continue;
       }
-      field += c;
+      *field += c;
       ++i;
     } else if (c == ',') {
-      fields.push_back(std::move(field));
-      field.clear();
+      ++count;
+      field = &field_at();
       was_quoted = false;
       ++i;
-    } else if (c == '"' && field.empty() && !was_quoted) {
+    } else if (c == '"' && field->empty() && !was_quoted) {
       in_quotes = true;
       was_quoted = true;
       ++i;
     } else {
-      field += c;
-      ++i;
+      // Unquoted text runs to the next comma or quote: append it at once.
+      std::size_t j = i + 1;
+      while (j < buffer_.size() && buffer_[j] != ',' && buffer_[j] != '"') ++j;
+      field->append(buffer_, i, j - i);
+      i = j;
     }
   }
 }

@@ -1,6 +1,10 @@
 #include "server/http/upload_rows.h"
 
+#include <algorithm>
 #include <cmath>
+#include <exception>
+#include <optional>
+#include <thread>
 
 #include "corrections/core/csv_reader.h"
 #include "corrections/core/errors.h"
@@ -84,9 +88,72 @@ bool in_range(double v, double lo, double hi, const char* name, std::int64_t lin
 
 }  // namespace
 
+namespace {
+
+ParsedUpload<store::ObservationRow> parse_observation_part(std::string_view body, BodyFormat format,
+                                                           const std::set<std::string>& transects,
+                                                           const SensorTable& sensors);
+
+constexpr std::size_t kSplitBytes = 8u << 20;  // bodies above this are parsed on two threads
+
+// A large CSV body without quotes (so no record spans a line break) splits at a
+// line break into two halves parsed at once; the second half gets a copy of the
+// header, and its line numbers are shifted back to the body's.
+std::optional<ParsedUpload<store::ObservationRow>> parse_in_halves(std::string_view body,
+                                                                   const std::set<std::string>& transects,
+                                                                   const SensorTable& sensors) {
+  if (body.size() < kSplitBytes || body.find('"') != std::string_view::npos) return std::nullopt;
+  const auto header_end = body.find('\n');
+  if (header_end == std::string_view::npos) return std::nullopt;
+  const auto split = body.find('\n', header_end + 1 + (body.size() - header_end) / 2);
+  if (split == std::string_view::npos || split + 1 >= body.size()) return std::nullopt;
+  const std::string_view first = body.substr(0, split + 1);
+  std::string second(body.substr(0, header_end + 1));
+  second.append(body.substr(split + 1));
+  const auto first_lines = static_cast<std::int64_t>(std::count(first.begin(), first.end(), '\n'));
+
+  ParsedUpload<store::ObservationRow> a, b;
+  std::exception_ptr failure;
+  std::thread worker([&] {
+    try {
+      b = parse_observation_part(second, BodyFormat::csv, transects, sensors);
+    } catch (...) {
+      failure = std::current_exception();
+    }
+  });
+  try {
+    a = parse_observation_part(first, BodyFormat::csv, transects, sensors);
+  } catch (...) {
+    worker.join();
+    throw;
+  }
+  worker.join();
+  if (failure) std::rethrow_exception(failure);
+  const std::int64_t shift = first_lines - 1;  // the copied header line
+  for (auto& r : b.rows) r.line += shift;
+  for (auto& i : b.invalid) i.line += shift;
+  a.received += b.received;
+  a.rows.insert(a.rows.end(), std::make_move_iterator(b.rows.begin()), std::make_move_iterator(b.rows.end()));
+  a.invalid.insert(a.invalid.end(), std::make_move_iterator(b.invalid.begin()),
+                   std::make_move_iterator(b.invalid.end()));
+  return a;
+}
+
+}  // namespace
+
 ParsedUpload<store::ObservationRow> parse_observation_upload(std::string_view body, BodyFormat format,
                                                              const std::set<std::string>& transects,
                                                              const SensorTable& sensors) {
+  if (format == BodyFormat::csv)
+    if (auto halves = parse_in_halves(body, transects, sensors)) return std::move(*halves);
+  return parse_observation_part(body, format, transects, sensors);
+}
+
+namespace {
+
+ParsedUpload<store::ObservationRow> parse_observation_part(std::string_view body, BodyFormat format,
+                                                           const std::set<std::string>& transects,
+                                                           const SensorTable& sensors) {
   static const std::vector<std::string> kColumns = {"transect_id", "time",           "chainage_m",   "sensor",
                                                     "image_id",    "cloud_fraction", "georef_rmse_m"};
   TabularBody table(body, format, kColumns, "observations");
@@ -120,6 +187,8 @@ ParsedUpload<store::ObservationRow> parse_observation_upload(std::string_view bo
   });
   return out;
 }
+
+}  // namespace
 
 ParsedUpload<store::WaterLevelRow> parse_water_level_upload(std::string_view body, BodyFormat format) {
   static const std::vector<std::string> kColumns = {"time", "level_m"};

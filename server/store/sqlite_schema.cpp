@@ -146,13 +146,59 @@ CREATE TABLE api_keys(
   created_at TEXT NOT NULL,
   revoked_at TEXT);
 )sql"},
+    // Observations keyed by integers: transect and image ids are interned per
+    // site, so the idempotency index compares three integers instead of two
+    // strings. The rows of one upload are one contiguous rowid range (one
+    // transaction, one writer), recorded on the upload; retraction updates
+    // that range, so no per-row upload index is kept. The upload reference is
+    // kept without a foreign-key check: the row is written in the same
+    // transaction by the store itself, and the per-row lookup is not free.
+    {2, R"sql(
+CREATE TABLE interned_ids(
+  id_key INTEGER PRIMARY KEY,
+  site_key INTEGER NOT NULL REFERENCES sites(site_key),
+  kind TEXT NOT NULL CHECK(kind IN ('transect', 'image')),
+  name TEXT NOT NULL,
+  UNIQUE(site_key, kind, name));
+INSERT INTO interned_ids(site_key, kind, name)
+  SELECT DISTINCT site_key, 'transect', transect_id FROM observations ORDER BY 1, 3;
+INSERT INTO interned_ids(site_key, kind, name)
+  SELECT DISTINCT site_key, 'image', image_id FROM observations ORDER BY 1, 3;
+CREATE TABLE observations_keyed(
+  id INTEGER PRIMARY KEY,
+  upload_id INTEGER NOT NULL,
+  site_key INTEGER NOT NULL,
+  transect_key INTEGER NOT NULL,
+  image_key INTEGER NOT NULL,
+  time_s REAL NOT NULL,
+  chainage_m REAL NOT NULL,
+  sensor TEXT NOT NULL,
+  cloud_fraction REAL,
+  georef_rmse_m REAL,
+  live INTEGER NOT NULL DEFAULT 1);
+INSERT INTO observations_keyed(id, upload_id, site_key, transect_key, image_key, time_s, chainage_m, sensor,
+                               cloud_fraction, georef_rmse_m, live)
+  SELECT o.id, o.upload_id, o.site_key, t.id_key, i.id_key, o.time_s, o.chainage_m, o.sensor,
+         o.cloud_fraction, o.georef_rmse_m, o.live
+  FROM observations o
+  JOIN interned_ids t ON t.site_key = o.site_key AND t.kind = 'transect' AND t.name = o.transect_id
+  JOIN interned_ids i ON i.site_key = o.site_key AND i.kind = 'image' AND i.name = o.image_id;
+ALTER TABLE uploads ADD COLUMN first_row_id INTEGER;
+ALTER TABLE uploads ADD COLUMN last_row_id INTEGER;
+UPDATE uploads SET first_row_id = (SELECT MIN(id) FROM observations WHERE upload_id = uploads.id),
+                   last_row_id = (SELECT MAX(id) FROM observations WHERE upload_id = uploads.id)
+  WHERE kind = 'observations';
+DROP TABLE observations;
+ALTER TABLE observations_keyed RENAME TO observations;
+CREATE UNIQUE INDEX observations_live ON observations(site_key, transect_key, image_key) WHERE live = 1;
+)sql"},
 };
 
 }  // namespace
 
 int latest_sqlite_schema_version() { return kMigrations.back().version; }
 
-int migrate_sqlite_schema(Connection& db) {
+int migrate_sqlite_schema(Connection& db, int up_to_version) {
   db.exec("CREATE TABLE IF NOT EXISTS schema_migrations(version INTEGER PRIMARY KEY, applied_at TEXT NOT NULL)");
   int current = 0;
   {
@@ -163,7 +209,7 @@ int migrate_sqlite_schema(Connection& db) {
     throw StoreError("database schema version " + std::to_string(current) + " is newer than this build (" +
                      std::to_string(latest_sqlite_schema_version()) + ")");
   for (const auto& m : kMigrations) {
-    if (m.version <= current) continue;
+    if (m.version <= current || m.version > up_to_version) continue;
     Transaction tx(db);
     db.exec(m.sql);
     db.prepare("INSERT INTO schema_migrations(version, applied_at) VALUES(?, strftime('%Y-%m-%dT%H:%M:%SZ','now'))")

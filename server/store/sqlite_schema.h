@@ -6,10 +6,11 @@
 
 namespace strandline::store {
 
-// Brings the database to the newest schema; returns the version reached.
-// Refuses a database written by a newer build.
-int migrate_sqlite_schema(Connection& db);
-
 int latest_sqlite_schema_version();
+
+// Brings the database to the newest schema (or to `up_to_version`, for tests of
+// a migration); returns the version reached. Refuses a database written by a
+// newer build.
+int migrate_sqlite_schema(Connection& db, int up_to_version = latest_sqlite_schema_version());
 
 }  // namespace strandline::store

@@ -2,7 +2,9 @@
 // retraction and purge, incremental-run bookkeeping, results and changes, keys.
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <filesystem>
+#include <set>
 #include <unistd.h>
 
 #include "server/store/api_keys.h"
@@ -200,6 +202,81 @@ TEST_F(StoreTest, KeysAreStoredHashedAndVerified) {
 }
 
 // FIPS 180-2 test vector (SHA-256 of "abc").
+// Uploads insert many rows per statement: duplicates inside one upload, across
+// statement boundaries and against stored rows must still be counted row by row.
+TEST_F(StoreTest, BatchedInsertsCountEveryRowAcrossStatementBoundaries) {
+  std::vector<ObservationRow> first;
+  for (int i = 0; i < 300; ++i) first.push_back(obs(i % 2 ? "T1" : "T2", "IMG" + std::to_string(i), 100 + i));
+  first.push_back(first[5]);    // identical repeat of a row in the first statement
+  first.push_back(first[299]);  // ... and of one in the last
+  const auto a = store_->add_observations("s1", meta(302), first);
+  EXPECT_EQ(a.inserted, 300);
+  EXPECT_EQ(a.duplicates, 2);
+
+  std::vector<ObservationRow> second(first.begin() + 150, first.begin() + 300);  // stored already
+  for (int i = 300; i < 450; ++i) second.push_back(obs("T1", "IMG" + std::to_string(i), 100 + i));
+  const auto b = store_->add_observations("s1", meta(300), second);
+  EXPECT_EQ(b.inserted, 150);
+  EXPECT_EQ(b.duplicates, 150);
+  EXPECT_EQ(store_->live_observations("s1", {}).size(), 450u);
+  EXPECT_EQ(store_->live_observations("s1", {"T2"}).size(), 150u);
+
+  // A contradiction deep in a large upload rolls back everything before it.
+  std::vector<ObservationRow> third;
+  for (int i = 450; i < 700; ++i) third.push_back(obs("T2", "IMG" + std::to_string(i), 100 + i));
+  third.push_back(obs("T1", "IMG301", 5));
+  EXPECT_THROW(store_->add_observations("s1", meta(251), third), ConflictError);
+  EXPECT_EQ(store_->live_observations("s1", {}).size(), 450u);
+
+  // Retracting the second upload hides exactly its 150 new rows.
+  const auto seq = store_->input_seq("s1");
+  ASSERT_TRUE(store_->retract_upload("s1", b.upload_id, {"", "alice", "duplicate scene"}));
+  EXPECT_EQ(store_->live_observations("s1", {}).size(), 300u);
+  const auto changed = store_->changed_transects("s1", seq);
+  ASSERT_TRUE(changed.has_value());
+  EXPECT_EQ(*changed, (std::set<std::string>{"T1"}));
+}
+
+// Schema version 2 re-keys stored observations by interned integers; rows and
+// the retraction of an upload written under version 1 survive it.
+TEST_F(StoreTest, MigrationToIntegerKeysKeepsStoredObservations) {
+  const std::string old_path = (dir_ / "v1.db").string();
+  {
+    Connection db(old_path, false);
+    ASSERT_EQ(migrate_sqlite_schema(db, 1), 1);
+    db.exec(
+        "INSERT INTO sites VALUES(1, 'old', 'Old Cove', 'EPSG:32631', 0, NULL, '{}', '2026-01-01T00:00:00Z');"
+        "INSERT INTO transects VALUES(1, 'T1', 0, 0, 90, 300, '{}');"
+        "INSERT INTO uploads(id, site_key, kind, content_type, sha256, received_at, uploaded_by, rows_received, "
+        "  rows_inserted, rows_duplicate, rows_rejected) VALUES"
+        "  (1, 1, 'observations', 'text/csv', 'a', '2026-01-01T00:00:00Z', 'x', 2, 2, 0, 0),"
+        "  (2, 1, 'observations', 'text/csv', 'b', '2026-01-02T00:00:00Z', 'x', 1, 1, 0, 0);"
+        "INSERT INTO observations(id, upload_id, site_key, transect_id, image_id, time_s, chainage_m, sensor, "
+        "  cloud_fraction, georef_rmse_m) VALUES"
+        "  (1, 1, 1, 'T1', 'A', 1.6e9, 100, 'landsat8', 0.1, NULL),"
+        "  (2, 1, 1, 'T1', 'B', 1.7e9, 101, 'landsat8', NULL, 4),"
+        "  (3, 2, 1, 'T1', 'C', 1.8e9, 102, 'sentinel2a', NULL, NULL);");
+  }
+  auto migrated = open_sqlite_store(old_path);
+  auto rows = migrated->live_observations("old", {"T1"});
+  ASSERT_EQ(rows.size(), 3u);
+  std::sort(rows.begin(), rows.end(), [](const auto& x, const auto& y) { return x.image_id < y.image_id; });
+  EXPECT_EQ(rows[0].image_id, "A");
+  EXPECT_EQ(rows[2].sensor, "sentinel2a");
+  EXPECT_DOUBLE_EQ(rows[1].chainage_m, 101);
+  EXPECT_DOUBLE_EQ(rows[1].georef_rmse_m, 4);
+  // Identity and idempotency carry over: the stored row is a duplicate, a changed one a conflict.
+  EXPECT_EQ(migrated->add_observations("old", meta(1), {{2, "T1", "C", "sentinel2a", 1.8e9, 102, kUnknown, kUnknown}})
+                .duplicates,
+            1);
+  EXPECT_THROW(migrated->add_observations("old", meta(1), {{2, "T1", "A", "landsat8", 1.6e9, 99, 0.1, kUnknown}}),
+               ConflictError);
+  ASSERT_TRUE(migrated->retract_upload("old", 1, {"", "alice", "wrong scene"}));
+  rows = migrated->live_observations("old", {});
+  ASSERT_EQ(rows.size(), 1u);
+  EXPECT_EQ(rows[0].image_id, "C");
+}
+
 TEST(ApiKeyHash, MatchesThePublishedSha256Vector) {
   EXPECT_EQ(sha256_hex("abc"), "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
 }
