@@ -1,6 +1,7 @@
 // Runs and their results: series, summary, changes.
 #include "corrections/core/errors.h"
 #include "qc/cautions.h"
+#include "server/http/gzip_document.h"
 #include "server/http/run_executor.h"
 #include "server/http/service_internal.h"
 #include "server/store/api_keys.h"
@@ -105,7 +106,10 @@ void get_series(Context& c) {
   const std::string run_text = c.query("run").value_or("latest");
   const std::int64_t run_id = run_text == "latest" ? 0 : positive_id(run_text, "run");
   using Text = store::Store::SeriesText;
-  auto result = c.service.store.result(site.id, transect, run_id, format == "csv" ? Text::csv : Text::json);
+  using Encoding = store::Store::Encoding;
+  const bool gzip = accepts_gzip(c.req.get_header_value("Accept-Encoding"));
+  auto result = c.service.store.result(site.id, transect, run_id, format == "csv" ? Text::csv : Text::json,
+                                       gzip ? Encoding::gzip : Encoding::identity, false);
   if (!result) {
     bool defined = false;
     for (const auto& t : c.service.store.transects(site.id)) defined = defined || t.id == transect;
@@ -115,11 +119,11 @@ void get_series(Context& c) {
     throw Problem(404, problem_type::not_found, "Not found", what);
   }
   c.res.set_header("X-Run-Id", std::to_string(result->run_id));
-  if (format == "csv") {
-    reply_with_etag(c, result->sha256 + "-csv", std::move(result->rows_csv), "text/csv");
-  } else {
-    reply_with_etag(c, result->sha256 + "-json", std::move(result->rows_json), "application/json");
-  }
+  std::string& identity = format == "csv" ? result->rows_csv : result->rows_json;
+  std::string& member = format == "csv" ? result->rows_csv_gzip : result->rows_json_gzip;
+  const bool send_member = !member.empty();
+  reply_with_etag(c, result->sha256 + "-" + format, std::move(send_member ? member : identity),
+                  format == "csv" ? "text/csv" : "application/json", send_member);
 }
 
 void get_summary(Context& c) {

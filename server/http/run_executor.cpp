@@ -12,6 +12,7 @@
 #include "corrections/water_level/gauge_series.h"
 #include "corrections/waves/wave_record.h"
 #include "qc/summary.h"
+#include "server/http/gzip_document.h"
 #include "server/io/cleaned_rows.h"
 #include "server/store/api_keys.h"
 
@@ -145,6 +146,8 @@ RunOutput execute_run(store::Store& store, const store::RunInfo& run, const std:
     r.rows_json = "{\"site\":" + nlohmann::json(run.site_id).dump() + ",\"transect_id\":" + nlohmann::json(t.id).dump() +
                   ",\"run_id\":" + std::to_string(run.id) + ",\"rows\":" + rows_text + "}";
     r.rows_csv = rows_csv(table, t);
+    r.rows_json_gzip = gzip_compress(r.rows_json);
+    r.rows_csv_gzip = gzip_compress(r.rows_csv);
     r.summary = transect_summary(table, static_cast<std::size_t>(&t - table.transects.data()), SummaryOptions{});
     output.results.push_back(std::move(r));
     transect_ids.push_back(t.id);

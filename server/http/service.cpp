@@ -2,6 +2,8 @@
 #include <iostream>
 #include <regex>
 
+#include <sys/socket.h>
+
 #include "corrections/core/errors.h"
 #include "server/http/service_internal.h"
 #include "server/store/api_keys.h"
@@ -96,15 +98,27 @@ store::Site Context::site_or_404(const std::string& site_id) const {
   return *site;
 }
 
-void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type) {
-  const std::string quoted = "\"" + etag + "\"";
-  c.res.set_header("ETag", quoted);
+void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type,
+                     bool gzip_member) {
+  const std::string identity = "\"" + etag + "\"", member = "\"" + etag + ".gz\"";
+  c.res.set_header("ETag", gzip_member ? member : identity);
+  c.res.set_header("Vary", "Accept-Encoding");
   const std::string match = c.req.get_header_value("If-None-Match");
-  if (!match.empty() && (match == quoted || match == "*" || match.find(quoted) != std::string::npos)) {
+  if (!match.empty() &&
+      (match == "*" || match.find(identity) != std::string::npos || match.find(member) != std::string::npos)) {
     c.res.status = 304;
     return;
   }
-  c.reply_text(200, std::move(text), content_type);
+  if (!gzip_member) return c.reply_text(200, std::move(text), content_type);
+  // A fixed-length content provider is sent as is (the server compresses
+  // only bodies and chunked providers), so the stored member goes out once.
+  c.res.status = 200;
+  c.res.set_header("Content-Encoding", "gzip");
+  auto bytes = std::make_shared<const std::string>(std::move(text));
+  c.res.set_content_provider(bytes->size(), content_type,
+                             [bytes](std::size_t offset, std::size_t length, httplib::DataSink& sink) {
+                               return sink.write(bytes->data() + offset, length);
+                             });
 }
 
 Service::Impl::Impl(store::Store& store, ServiceOptions options)
@@ -231,6 +245,17 @@ Service::Service(store::Store& store, ServiceOptions options) : impl_(std::make_
   s.set_keep_alive_timeout(5);
   s.set_read_timeout(30);
   s.set_write_timeout(30);
+  // Headers and body go out as separate writes: without TCP_NODELAY the body
+  // waits on the client's delayed ACK of the headers.
+  s.set_tcp_nodelay(true);
+  // The library's own options add SO_REUSEPORT, which lets a second server
+  // bind the same port and silently take half its connections: address reuse
+  // only (a restart over TIME_WAIT), and the socket is kept for its backlog.
+  s.set_socket_options([impl = impl_.get()](socket_t sock) {
+    int yes = 1;
+    ::setsockopt(sock, SOL_SOCKET, SO_REUSEADDR, &yes, sizeof yes);
+    impl->listen_socket = sock;
+  });
   if (!options.static_dir.empty() && !s.set_mount_point("/", options.static_dir))
     throw std::runtime_error("static folder " + options.static_dir + " does not exist");
   impl_->install_routes();
@@ -241,6 +266,11 @@ Service::~Service() { stop(); }
 int Service::bind(const std::string& host, int port) {
   auto& s = impl_->server;
   impl_->port = port == 0 ? s.bind_to_any_port(host) : (s.bind_to_port(host, port) ? port : -1);
+  // The library listens with a backlog of 5: a burst of connections (64 at
+  // once from a pipeline or a load test) overflows it, and each dropped
+  // handshake costs the client a 1-3 s retransmission. listen() again on the
+  // bound socket raises the backlog.
+  if (impl_->port > 0 && impl_->listen_socket >= 0) ::listen(impl_->listen_socket, SOMAXCONN);
   return impl_->port;
 }
 

@@ -65,6 +65,7 @@ struct Service::Impl {
   std::thread listener;
   std::atomic<std::size_t> in_flight{0};
   int port = -1;
+  int listen_socket = -1;  // recorded when the server creates it (see Service::bind)
 
   void install_routes();
   void dispatch(const Route& route, const httplib::Request& req, httplib::Response& res);
@@ -74,6 +75,10 @@ struct Service::Impl {
 void write_problem(httplib::Response& res, const Problem& p, const std::string& instance);
 
 // Writes `text` for a GET with an ETag, or 304 when If-None-Match matches.
-void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type);
+// With `gzip_member`, `text` is a stored gzip member of the document: sent as
+// is with Content-Encoding gzip under the ETag "<etag>.gz" (either ETag
+// revalidates: the document is the same). Replies vary by Accept-Encoding.
+void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type,
+                     bool gzip_member = false);
 
 }  // namespace strandline::http

@@ -1,5 +1,6 @@
 #include "server/io/cleaned_rows.h"
 
+#include <cmath>
 #include <cstdio>
 #include <fstream>
 #include <stdexcept>
@@ -30,6 +31,13 @@ const std::vector<ColumnSpec>& cleaned_columns() {
 
 namespace {
 CellValue real(double v) { return known(v) ? CellValue{v} : CellValue{}; }
+
+// JSON carries the same decimals as CSV: the values agree in both formats and
+// no reply spends 17 digits on a position known to a few metres.
+double rounded(double v, int decimals) {
+  const double scale = std::pow(10.0, decimals);
+  return std::round(v * scale) / scale;
+}
 }  // namespace
 
 void cleaned_values(const SiteTable& t, std::size_t i, std::vector<CellValue>& out) {
@@ -76,7 +84,7 @@ nlohmann::json cleaned_row_json(const SiteTable& t, std::size_t i) {
     } else if (std::holds_alternative<std::monostate>(v)) {
       j[cols[c].name] = nullptr;
     } else if (auto* d = std::get_if<double>(&v)) {
-      j[cols[c].name] = *d;
+      j[cols[c].name] = rounded(*d, cols[c].decimals);
     } else if (auto* n = std::get_if<std::int64_t>(&v)) {
       j[cols[c].name] = *n;
     } else {

@@ -22,7 +22,7 @@ using CellValue = std::variant<std::monostate, double, std::int64_t, std::string
 struct ColumnSpec {
   std::string name;
   enum class Kind { text, real, integer } kind;
-  int decimals = 3;  // for real columns in text outputs
+  int decimals = 3;  // for real columns in text outputs (CSV and JSON)
 };
 
 // The engine's columns, in output order.
@@ -31,7 +31,8 @@ const std::vector<ColumnSpec>& cleaned_columns();
 // Values of the engine's columns for one table row (same order as cleaned_columns()).
 void cleaned_values(const SiteTable& table, std::size_t row, std::vector<CellValue>& out);
 
-// One row as JSON (flags as an array, unknown values null, sigma terms listed).
+// One row as JSON (flags as an array, unknown values null, sigma terms listed,
+// reals rounded to the column's decimals as in CSV).
 nlohmann::json cleaned_row_json(const SiteTable& table, std::size_t row);
 
 // Text form of a cell for CSV.

@@ -31,6 +31,13 @@ Statement& Statement::bind(int index, double value) {
   return *this;
 }
 
+Statement& Statement::bind_blob(int index, std::string_view bytes) {
+  if (bytes.empty()) return bind_null(index);
+  if (sqlite3_bind_blob(stmt_, index, bytes.data(), static_cast<int>(bytes.size()), SQLITE_TRANSIENT) != SQLITE_OK)
+    fail(sqlite3_db_handle(stmt_), "bind");
+  return *this;
+}
+
 Statement& Statement::bind(int index, std::string_view value) {
   if (sqlite3_bind_text(stmt_, index, value.data(), static_cast<int>(value.size()), SQLITE_TRANSIENT) !=
       SQLITE_OK)
@@ -71,6 +78,10 @@ double Statement::real(int column) const {
 }
 std::string_view Statement::text_view(int column) const {
   const auto* p = reinterpret_cast<const char*>(sqlite3_column_text(stmt_, column));
+  return p ? std::string_view(p, static_cast<std::size_t>(sqlite3_column_bytes(stmt_, column))) : std::string_view();
+}
+std::string_view Statement::blob_view(int column) const {
+  const auto* p = static_cast<const char*>(sqlite3_column_blob(stmt_, column));
   return p ? std::string_view(p, static_cast<std::size_t>(sqlite3_column_bytes(stmt_, column))) : std::string_view();
 }
 std::string Statement::text(int column) const { return std::string(text_view(column)); }

@@ -40,6 +40,7 @@ class Statement {
   Statement& bind(int index, const std::string& value) { return bind(index, std::string_view(value)); }
   Statement& bind(int index, const std::optional<std::string>& value);
   Statement& bind_null(int index);
+  Statement& bind_blob(int index, std::string_view bytes);  // empty binds NULL
 
   // Steps once: true when a row is available.
   bool step();
@@ -54,6 +55,7 @@ class Statement {
   std::string text(int column) const;
   std::string_view text_view(int column) const;  // valid until the next step
   std::optional<std::string> optional_text(int column) const;
+  std::string_view blob_view(int column) const;  // empty for NULL; valid until the next step
 
  private:
   sqlite3_stmt* stmt_;

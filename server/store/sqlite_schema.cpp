@@ -192,6 +192,23 @@ DROP TABLE observations;
 ALTER TABLE observations_keyed RENAME TO observations;
 CREATE UNIQUE INDEX observations_live ON observations(site_key, transect_key, image_key) WHERE live = 1;
 )sql"},
+    // Series reply documents leave the results row for a table of their own,
+    // and gain gzip members compressed once by the run. Inline, ~1 MB of
+    // documents sat before a result's summary and hash: every result lookup
+    // walked their overflow pages. Results stored before get no gzip member
+    // and are sent uncompressed.
+    {3, R"sql(
+CREATE TABLE result_documents(
+  id INTEGER PRIMARY KEY,
+  result_seq INTEGER NOT NULL REFERENCES results(seq),
+  kind TEXT NOT NULL CHECK(kind IN ('json', 'csv', 'json.gz', 'csv.gz')),
+  content BLOB NOT NULL);
+CREATE UNIQUE INDEX result_documents_by_result ON result_documents(result_seq, kind);
+INSERT INTO result_documents(result_seq, kind, content) SELECT seq, 'json', rows_json FROM results;
+INSERT INTO result_documents(result_seq, kind, content) SELECT seq, 'csv', rows_csv FROM results;
+ALTER TABLE results DROP COLUMN rows_json;
+ALTER TABLE results DROP COLUMN rows_csv;
+)sql"},
 };
 
 }  // namespace

@@ -280,8 +280,8 @@ void SqliteStore::finish_run(std::int64_t run_id, const nlohmann::json& provenan
   auto previous = writer_->prepare(
       "SELECT sha256 FROM results WHERE site_key = ? AND transect_id = ? ORDER BY seq DESC LIMIT 1");
   auto insert = writer_->prepare(
-      "INSERT INTO results(run_id, site_key, transect_id, rows_json, rows_csv, summary, sha256, changed) "
-      "VALUES(?, ?, ?, ?, ?, ?, ?, ?)");
+      "INSERT INTO results(run_id, site_key, transect_id, summary, sha256, changed) VALUES(?, ?, ?, ?, ?, ?)");
+  auto document = writer_->prepare("INSERT INTO result_documents(result_seq, kind, content) VALUES(?, ?, ?)");
   for (const auto& r : results) {
     previous.bind(1, key).bind(2, r.transect_id);
     const bool changed = !previous.step() || previous.text_view(0) != r.sha256;
@@ -289,13 +289,20 @@ void SqliteStore::finish_run(std::int64_t run_id, const nlohmann::json& provenan
     insert.bind(1, run_id)
         .bind(2, key)
         .bind(3, r.transect_id)
-        .bind(4, r.rows_json)
-        .bind(5, r.rows_csv)
-        .bind(6, r.summary.dump())
-        .bind(7, r.sha256)
-        .bind(8, changed ? 1 : 0);
+        .bind(4, r.summary.dump())
+        .bind(5, r.sha256)
+        .bind(6, changed ? 1 : 0);
     insert.run();
     insert.reset();
+    const std::int64_t seq = writer_->last_insert_rowid();
+    const std::pair<const char*, const std::string*> documents[] = {
+        {"json", &r.rows_json}, {"csv", &r.rows_csv}, {"json.gz", &r.rows_json_gzip}, {"csv.gz", &r.rows_csv_gzip}};
+    for (const auto& [kind, content] : documents) {
+      if (content->empty()) continue;
+      document.bind(1, seq).bind(2, kind).bind_blob(3, *content);
+      document.run();
+      document.reset();
+    }
   }
   writer_
       ->prepare(
@@ -331,33 +338,45 @@ int SqliteStore::fail_interrupted_runs() {
 // ---------------------------------------------------------------- results
 
 namespace {
-TransectResult read_result(const Statement& q, bool with_rows) {
+TransectResult read_result(const Statement& q) {
   TransectResult r;
   r.seq = q.integer(0);
   r.run_id = q.integer(1);
   r.transect_id = q.text(2);
   r.summary = nlohmann::json::parse(q.text_view(3));
   r.sha256 = q.text(4);
-  if (with_rows) {
-    r.rows_json = q.text(5);
-    r.rows_csv = q.text(6);
-  }
   return r;
 }
 }  // namespace
 
 std::optional<TransectResult> SqliteStore::result(const std::string& site_id, const std::string& transect_id,
-                                                  std::int64_t run_id, SeriesText text) {
+                                                  std::int64_t run_id, SeriesText text, Encoding encoding,
+                                                  bool with_summary) {
   auto db = reader();
   const auto key = site_key(*db, site_id);
-  const std::string column = text == SeriesText::json ? "rows_json" : "rows_csv";
-  auto q = db->prepare("SELECT seq, run_id, transect_id, summary, sha256, " + column +
-                       " FROM results WHERE site_key = ? AND transect_id = ? AND (? = 0 OR run_id = ?) "
-                       "ORDER BY run_id DESC LIMIT 1");
+  auto q = db->prepare(
+      "SELECT seq, run_id, sha256, summary FROM results WHERE site_key = ? AND transect_id = ? AND (? = 0 OR run_id = ?) "
+      "ORDER BY run_id DESC LIMIT 1");
   q.bind(1, key).bind(2, transect_id).bind(3, run_id).bind(4, run_id);
   if (!q.step()) return std::nullopt;
-  TransectResult r = read_result(q, false);
-  (text == SeriesText::json ? r.rows_json : r.rows_csv) = q.text(5);
+  TransectResult r;
+  r.seq = q.integer(0);
+  r.run_id = q.integer(1);
+  r.transect_id = transect_id;
+  r.sha256 = q.text(2);
+  if (with_summary) r.summary = nlohmann::json::parse(q.text_view(3));
+  const bool json = text == SeriesText::json;
+  // The gzip member when asked for and stored, else the identity document.
+  auto doc = db->prepare(
+      "SELECT kind, content FROM result_documents WHERE result_seq = ? AND kind IN (?, ?) "
+      "ORDER BY kind = ? DESC LIMIT 1");
+  const char* identity = json ? "json" : "csv";
+  const char* member = encoding == Encoding::gzip ? (json ? "json.gz" : "csv.gz") : identity;
+  doc.bind(1, r.seq).bind(2, identity).bind(3, member).bind(4, member);
+  if (!doc.step()) throw StoreError("result " + std::to_string(r.seq) + " has no " + identity + " document");
+  const bool is_member = doc.text_view(0) != identity;
+  std::string& target = is_member ? (json ? r.rows_json_gzip : r.rows_csv_gzip) : (json ? r.rows_json : r.rows_csv);
+  target = std::string(doc.blob_view(1));
   return r;
 }
 
@@ -370,7 +389,7 @@ std::vector<TransectResult> SqliteStore::latest_summaries(const std::string& sit
       "ORDER BY transect_id");
   q.bind(1, key);
   std::vector<TransectResult> out;
-  while (q.step()) out.push_back(read_result(q, false));
+  while (q.step()) out.push_back(read_result(q));
   return out;
 }
 
@@ -382,7 +401,7 @@ std::vector<TransectResult> SqliteStore::changes(const std::string& site_id, std
       "ORDER BY seq LIMIT ?");
   q.bind(1, key).bind(2, since).bind(3, limit);
   std::vector<TransectResult> out;
-  while (q.step()) out.push_back(read_result(q, false));
+  while (q.step()) out.push_back(read_result(q));
   return out;
 }
 

@@ -62,7 +62,8 @@ class SqliteStore final : public Store {
   int fail_interrupted_runs() override;
 
   std::optional<TransectResult> result(const std::string& site_id, const std::string& transect_id,
-                                       std::int64_t run_id, SeriesText text) override;
+                                       std::int64_t run_id, SeriesText text, Encoding encoding,
+                                       bool with_summary) override;
   std::vector<TransectResult> latest_summaries(const std::string& site_id) override;
   std::vector<TransectResult> changes(const std::string& site_id, std::int64_t since, int limit) override;
 

@@ -160,6 +160,8 @@ struct TransectResult {
   std::string rows_csv;   // the same rows as CSV with a header
   nlohmann::json summary;
   std::string sha256;     // of the rows alone (not the run id): the ETag and change test
+  std::string rows_json_gzip;  // gzip members of the two documents (empty: none stored)
+  std::string rows_csv_gzip;
 };
 
 struct ApiKey {
@@ -236,8 +238,13 @@ class Store {
   // `run_id` 0 = the latest finished run containing the transect. Only the
   // text asked for is read (series replies are large).
   enum class SeriesText { json, csv };
+  enum class Encoding { identity, gzip };
+  // Fills the one document asked for: rows_json or rows_csv, or with gzip its
+  // member when one is stored (else the identity document, for older results);
+  // the summary only when asked (a series read does not need it).
   virtual std::optional<TransectResult> result(const std::string& site_id, const std::string& transect_id,
-                                               std::int64_t run_id, SeriesText text) = 0;
+                                               std::int64_t run_id, SeriesText text,
+                                               Encoding encoding = Encoding::identity, bool with_summary = true) = 0;
   // The latest result of every transect (summaries only; rows left empty).
   virtual std::vector<TransectResult> latest_summaries(const std::string& site_id) = 0;
   // Results whose content changed, with seq > since, oldest first, at most `limit`.

@@ -3,7 +3,8 @@
 #   1. CSV upload of N observations (default 1,000,000) in one request: rows
 #      stored durably per second (the reply comes after the WAL fsync).
 #   2. Series reads with wrk at 64 connections while runs are active on a
-#      second site: latency percentiles and errors.
+#      second site, with and without Accept-Encoding gzip: latency
+#      percentiles and errors.
 #   bash tests/bench/run_http_benchmark.sh [BUILD_DIR]   -> prints Markdown
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
@@ -79,19 +80,35 @@ for _ in 1 2 3; do
   curl -sSf -H "$auth" -H "Content-Type: application/json" -d "{}" "$base/v1/sites/demo/runs?transects=all" > /dev/null
 done
 sleep 1
-cat > "$tmp/series.lua" <<'LUA'
+# The dashboard's reads: a browser sends Accept-Encoding, and the series is
+# stored gzip-compressed by its run. A second window without it (curl, wrk's
+# default) measures the identity documents.
+series_lua() {
+  cat <<LUA
 local n = 0
 request = function()
   n = n + 1
-  return wrk.format("GET", string.format("/v1/sites/demo/transects/T%03d/series?format=json", (n % 20) + 1))
+  return wrk.format("GET", string.format("/v1/sites/demo/transects/T%03d/series?format=json", (n % 20) + 1), {$1})
 end
 LUA
-wrk -t2 -c64 -d"${read_s}s" --latency -s "$tmp/series.lua" "$base" > "$tmp/wrk.txt"
-active=$(curl -sSf "$base/healthz" | sed -n 's/.*"runs_active":\([0-9]*\).*/\1/p')
+}
+series_lua '["Accept-Encoding"] = "gzip, deflate, br"' > "$tmp/series_gzip.lua"
+series_lua '' > "$tmp/series_identity.lua"
+wrk -t2 -c64 -d"${read_s}s" --latency -s "$tmp/series_gzip.lua" "$base" > "$tmp/wrk_gzip.txt"
+active_gzip=$(curl -sSf "$base/healthz" | sed -n 's/.*"runs_active":\([0-9]*\).*/\1/p')
+wrk -t2 -c64 -d"${read_s}s" --latency -s "$tmp/series_identity.lua" "$base" > "$tmp/wrk_identity.txt"
+active_identity=$(curl -sSf "$base/healthz" | sed -n 's/.*"runs_active":\([0-9]*\).*/\1/p')
 series_kib=$(( $(curl -sSf "$base/v1/sites/demo/transects/T001/series" | wc -c) / 1024 ))
+gzip_kib=$(( $(curl -sSf -H 'Accept-Encoding: gzip' "$base/v1/sites/demo/transects/T001/series" | wc -c) / 1024 ))
 echo
 echo "### Series reads at 64 connections during runs"
-echo "wrk -t2 -c64 -d${read_s}s, 20 transects in rotation, ~${series_kib} KiB JSON per reply; runs still queued or active at the end: $active"
+echo "wrk -t2 -c64 -d${read_s}s, 20 transects in rotation; one reply is ${gzip_kib} KiB gzip (${series_kib} KiB JSON)"
+echo
+echo "Accept-Encoding: gzip (as a browser); runs still queued or active at the end: $active_gzip"
 echo '```'
-sed -n '/Thread Stats/,$p' "$tmp/wrk.txt"
+sed -n '/Thread Stats/,$p' "$tmp/wrk_gzip.txt"
+echo '```'
+echo "No Accept-Encoding (identity); runs still queued or active at the end: $active_identity"
+echo '```'
+sed -n '/Thread Stats/,$p' "$tmp/wrk_identity.txt"
 echo '```'

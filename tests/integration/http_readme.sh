@@ -27,6 +27,15 @@ bash -euo pipefail "$work/examples.sh" > "$work/out.txt" || fail "an example fai
 grep -q '"status":"ok"' "$work/out.txt" || fail "healthz"
 grep -q '"state":"done"' "$work/out.txt" || fail "the run did not finish: $(cat "$work/out.txt")"
 grep -q '^T1,2024-01-01T00:30:00Z,sentinel2a,S2A_20240101,152.300' "$work/out.txt" || fail "series row: $(cat "$work/out.txt")"
+grep -q '"chainage_raw_m":152.3,' "$work/out.txt" || fail "JSON series row (--compressed): $(cat "$work/out.txt")"
+# The stored gzip member decodes, with GNU gzip and with curl's zlib, to the
+# identity document byte for byte.
+series="$BASE/v1/sites/cove/transects/T1/series?format=json"
+curl -sf "$series" > "$work/identity.json"
+curl -sf -D "$work/gz.headers" -H 'Accept-Encoding: gzip' "$series" > "$work/series.gz"
+grep -qi '^Content-Encoding: gzip' "$work/gz.headers" || fail "no gzip member: $(cat "$work/gz.headers")"
+gzip -dc "$work/series.gz" | cmp -s - "$work/identity.json" || fail "gzip -dc of the member differs from the document"
+curl -sf --compressed "$series" | cmp -s - "$work/identity.json" || fail "curl --compressed differs from the document"
 grep -q '"items":\[{"etag"' "$work/out.txt" || grep -q '"transect_id":"T1"' "$work/out.txt" || fail "changes"
 # Keys: list shows no secret; a revoked key is refused.
 "$bin" keys list --db "$work/db" | grep -q '^readme,write,' || fail "keys list"

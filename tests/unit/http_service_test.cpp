@@ -12,6 +12,7 @@
 #include <nlohmann/json.hpp>
 
 #include "corrections/core/time_utc.h"
+#include "server/http/gzip_document.h"
 #include "server/http/run_manager.h"
 #include "server/http/service.h"
 #include "server/store/api_keys.h"
@@ -292,10 +293,11 @@ TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
   ASSERT_TRUE(series && series->status == 200);
   auto body = json::parse(series->body);
   ASSERT_EQ(body["rows"].size(), 40u);
-  // With the default slope 0.1 and z_ref 0 the correction is level / slope.
+  // With the default slope 0.1 and z_ref 0 the correction is level / slope;
+  // both are given to the millimetre, so level / slope is known to ±5 mm.
   const auto& row = body["rows"][0];
   ASSERT_TRUE(row["water_level_m"].is_number());
-  EXPECT_NEAR(row["correction_m"].get<double>(), row["water_level_m"].get<double>() / 0.1, 1e-6);
+  EXPECT_NEAR(row["correction_m"].get<double>(), row["water_level_m"].get<double>() / 0.1, 0.0056);
   const std::string etag = series->get_header_value("ETag");
   ASSERT_FALSE(etag.empty());
   auto revalidated =
@@ -305,6 +307,29 @@ TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
   auto csv = client().Get("/v1/sites/cove/transects/T1/series?format=csv");
   ASSERT_TRUE(csv && csv->status == 200);
   EXPECT_EQ(csv->body.substr(0, 17), "transect_id,time,");
+
+  // A client accepting gzip gets the member stored by the run, byte for byte
+  // the same document, under its own ETag; either ETag revalidates.
+  for (const auto& [format, identity] : {std::pair{"json", series->body}, std::pair{"csv", csv->body}}) {
+    auto raw = client();
+    raw.set_decompress(false);
+    const std::string path = std::string("/v1/sites/cove/transects/T1/series?format=") + format;
+    auto gz = raw.Get(path.c_str(), httplib::Headers{{"Accept-Encoding", "gzip, deflate, br"}});
+    ASSERT_TRUE(gz && gz->status == 200);
+    EXPECT_EQ(gz->get_header_value("Content-Encoding"), "gzip");
+    EXPECT_EQ(gz->get_header_value("Vary"), "Accept-Encoding");
+    ASSERT_GT(gz->body.size(), 2u);
+    EXPECT_LT(gz->body.size(), identity.size());
+    EXPECT_EQ(http::gzip_decompress(gz->body), identity);
+    const std::string gz_etag = gz->get_header_value("ETag");
+    EXPECT_EQ(gz_etag.substr(gz_etag.size() - 4), ".gz\"");
+    auto plain = raw.Get(path.c_str(), httplib::Headers{{"Accept-Encoding", "gzip;q=0, br"}});
+    ASSERT_TRUE(plain && plain->status == 200);
+    EXPECT_NE(plain->get_header_value("Content-Encoding"), "gzip");
+    auto again = raw.Get(path.c_str(), httplib::Headers{{"Accept-Encoding", "gzip"}, {"If-None-Match", gz_etag}});
+    ASSERT_TRUE(again);
+    EXPECT_EQ(again->status, 304);
+  }
   expect_problem(client().Get("/v1/sites/cove/transects/T7/series"), 404, "/problems/not-found");
   expect_problem(client().Get("/v1/sites/cove/transects/T1/series?format=xml"), 400, "/problems/bad-request");
 

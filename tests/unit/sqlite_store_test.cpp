@@ -167,6 +167,8 @@ TEST_F(StoreTest, ResultsAreVersionedByRunAndChangesSkipIdenticalResults) {
   store_->finish_run(r2, {}, {{0, r2, "T1", "[1]", "a\n1\n", {}, "h1"}, {0, r2, "T2", "[3]", "a\n3\n", {}, "h3"}});
   EXPECT_EQ(store_->result("s1", "T2", 0, Store::SeriesText::json)->rows_json, "[3]");
   EXPECT_EQ(store_->result("s1", "T2", r1, Store::SeriesText::json)->rows_json, "[2]");
+  // No gzip member was stored: a gzip read falls back to the identity document.
+  EXPECT_EQ(store_->result("s1", "T2", 0, Store::SeriesText::csv, Store::Encoding::gzip)->rows_csv, "a\n3\n");
   EXPECT_EQ(store_->run(r1)->state, "done");
   const auto all = store_->changes("s1", 0, 100);
   ASSERT_EQ(all.size(), 3u);  // T1 and T2 of run 1, T2 of run 2 (T1 unchanged in run 2)
@@ -237,9 +239,10 @@ TEST_F(StoreTest, BatchedInsertsCountEveryRowAcrossStatementBoundaries) {
   EXPECT_EQ(*changed, (std::set<std::string>{"T1"}));
 }
 
-// Schema version 2 re-keys stored observations by interned integers; rows and
-// the retraction of an upload written under version 1 survive it.
-TEST_F(StoreTest, MigrationToIntegerKeysKeepsStoredObservations) {
+// Schema version 2 re-keys stored observations by interned integers, version 3
+// moves series documents to their own table: rows, results and the retraction
+// of an upload written under version 1 survive both.
+TEST_F(StoreTest, MigrationsKeepStoredObservationsAndResults) {
   const std::string old_path = (dir_ / "v1.db").string();
   {
     Connection db(old_path, false);
@@ -255,7 +258,11 @@ TEST_F(StoreTest, MigrationToIntegerKeysKeepsStoredObservations) {
         "  cloud_fraction, georef_rmse_m) VALUES"
         "  (1, 1, 1, 'T1', 'A', 1.6e9, 100, 'landsat8', 0.1, NULL),"
         "  (2, 1, 1, 'T1', 'B', 1.7e9, 101, 'landsat8', NULL, 4),"
-        "  (3, 2, 1, 'T1', 'C', 1.8e9, 102, 'sentinel2a', NULL, NULL);");
+        "  (3, 2, 1, 'T1', 'C', 1.8e9, 102, 'sentinel2a', NULL, NULL);"
+        "INSERT INTO runs(id, site_key, state, options, scope, input_seq, created_at, requested_by) VALUES"
+        "  (1, 1, 'done', '{}', 'all', 0, '2026-01-03T00:00:00Z', 'x');"
+        "INSERT INTO results(run_id, site_key, transect_id, rows_json, rows_csv, summary, sha256, changed) VALUES"
+        "  (1, 1, 'T1', '{\"rows\":[]}', 'transect_id\n', '{\"points\":3}', 'h1', 1);");
   }
   auto migrated = open_sqlite_store(old_path);
   auto rows = migrated->live_observations("old", {"T1"});
@@ -271,6 +278,14 @@ TEST_F(StoreTest, MigrationToIntegerKeysKeepsStoredObservations) {
             1);
   EXPECT_THROW(migrated->add_observations("old", meta(1), {{2, "T1", "A", "landsat8", 1.6e9, 99, 0.1, kUnknown}}),
                ConflictError);
+  // The old result keeps both documents; without a stored gzip member a gzip
+  // read gets the identity document.
+  const auto json = migrated->result("old", "T1", 0, Store::SeriesText::json, Store::Encoding::gzip);
+  ASSERT_TRUE(json.has_value());
+  EXPECT_EQ(json->rows_json, "{\"rows\":[]}");
+  EXPECT_TRUE(json->rows_json_gzip.empty());
+  EXPECT_EQ(json->summary["points"], 3);
+  EXPECT_EQ(migrated->result("old", "T1", 1, Store::SeriesText::csv)->rows_csv, "transect_id\n");
   ASSERT_TRUE(migrated->retract_upload("old", 1, {"", "alice", "wrong scene"}));
   rows = migrated->live_observations("old", {});
   ASSERT_EQ(rows.size(), 1u);
