@@ -156,7 +156,10 @@ json build() {
       {"parameters", json::array({site, path_param("transect", "transect id"),
                                   query_param("run", "latest (default) or a run id"),
                                   query_param("format", "json (default) or csv", {{"type", "string"}, {"enum", {"json", "csv"}}})})},
-      {"responses", merge({{"200", {{"description", "The series (ETag for revalidation)"},
+      {"responses", merge({{"200", {{"description", "The series (ETag for revalidation). With Accept-Encoding gzip, the "
+                                                    "gzip member stored by the run (Content-Encoding: gzip, ETag \"<etag>.gz\")"},
+                                    {"headers", {{"ETag", {{"schema", str}}}, {"Vary", {{"schema", str}}},
+                                                 {"Content-Encoding", {{"schema", str}}}, {"X-Run-Id", {{"schema", str}}}}},
                                     {"content", {{"application/json", {{"schema", ref("Series")}}}, {"text/csv", {{"schema", str}}}}}}}},
                           errors({304, 400, 401, 404, 503}))}};
   paths["/v1/sites/{site}/summary"]["get"] = {{"summary", "Latest per-transect summaries"}, {"security", read_security},

@@ -130,7 +130,10 @@ class IdInterner {
         db_(db) {}
 
   std::int64_t key(const std::string& name) {
-    if (auto it = keys_.find(name); it != keys_.end()) return it->second;
+    // Consecutive rows mostly share an id (one image across transects, or
+    // one transect across images): the last answer first.
+    if (last_ && *last_ == name) return last_key_;
+    if (auto it = keys_.find(name); it != keys_.end()) return remember(it);
     std::int64_t key = 0;
     find_.bind(1, site_key_).bind(2, kind_).bind(3, name);
     if (find_.step()) {
@@ -142,9 +145,8 @@ class IdInterner {
       key = db_.last_insert_rowid();
     }
     find_.reset();
-    keys_.emplace(name, key);
     names_.emplace(key, name);
-    return key;
+    return remember(keys_.emplace(name, key).first);
   }
   const std::string& name(std::int64_t key) const { return names_.at(key); }
 
@@ -155,6 +157,14 @@ class IdInterner {
   Connection& db_;
   std::unordered_map<std::string, std::int64_t> keys_;
   std::unordered_map<std::int64_t, std::string> names_;
+  const std::string* last_ = nullptr;  // points into keys_ (node-based: stable)
+  std::int64_t last_key_ = 0;
+
+  std::int64_t remember(std::unordered_map<std::string, std::int64_t>::const_iterator it) {
+    last_ = &it->first;
+    last_key_ = it->second;
+    return last_key_;
+  }
 };
 
 // How one keyed input kind (water levels and waves by time, slopes by transect)

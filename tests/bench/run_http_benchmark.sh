@@ -92,17 +92,33 @@ request = function()
 end
 LUA
 }
+# State and progress of the bulk site's runs (newest first), to show a run is
+# really executing during a read window.
+run_states() {
+  curl -sSf "$base/v1/sites/bulk/runs" | tr '{' '\n' |
+    sed -n 's/.*"run_id":\([0-9]*\).*"state":"\([a-z]*\)".*/run \1 \2/p' | tr '\n' ' '
+  curl -sSf "$base/v1/sites/bulk/runs" | tr '{' '\n' |
+    sed -n 's/.*"transects_done":\([0-9]*\),"transects_total":\([0-9]*\).*/\1\/\2/p' | tr '\n' ' '
+}
 series_lua '["Accept-Encoding"] = "gzip, deflate, br"' > "$tmp/series_gzip.lua"
 series_lua '' > "$tmp/series_identity.lua"
+runs_before=$(run_states)
 wrk -t2 -c64 -d"${read_s}s" --latency -s "$tmp/series_gzip.lua" "$base" > "$tmp/wrk_gzip.txt"
+runs_between=$(run_states)
 active_gzip=$(curl -sSf "$base/healthz" | sed -n 's/.*"runs_active":\([0-9]*\).*/\1/p')
 wrk -t2 -c64 -d"${read_s}s" --latency -s "$tmp/series_identity.lua" "$base" > "$tmp/wrk_identity.txt"
 active_identity=$(curl -sSf "$base/healthz" | sed -n 's/.*"runs_active":\([0-9]*\).*/\1/p')
+runs_after=$(run_states)
 series_kib=$(( $(curl -sSf "$base/v1/sites/demo/transects/T001/series" | wc -c) / 1024 ))
 gzip_kib=$(( $(curl -sSf -H 'Accept-Encoding: gzip' "$base/v1/sites/demo/transects/T001/series" | wc -c) / 1024 ))
 echo
 echo "### Series reads at 64 connections during runs"
 echo "wrk -t2 -c64 -d${read_s}s, 20 transects in rotation; one reply is ${gzip_kib} KiB gzip (${series_kib} KiB JSON)"
+echo
+echo "Bulk-site runs (state, then transects done/total) before, between and after the windows:"
+echo "- $runs_before"
+echo "- $runs_between"
+echo "- $runs_after"
 echo
 echo "Accept-Encoding: gzip (as a browser); runs still queued or active at the end: $active_gzip"
 echo '```'
