@@ -120,6 +120,8 @@ struct Inserted {
 
 // A site's transect or image ids as integer keys (table interned_ids), created
 // on first use inside the caller's transaction; one lookup per distinct id.
+// Interners of one connection share its cached statements: each key() call
+// binds, steps and resets them before returning.
 class IdInterner {
  public:
   IdInterner(Connection& db, std::int64_t site_key, const char* kind)
@@ -284,7 +286,7 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
   // bindings) is paid once per batch. A batch's inserted rows are the rowids
   // above the largest before it; a row not among them met a live row (stored
   // before, or earlier in this upload).
-  std::optional<Statement> full_batch;
+  std::optional<Statement> full_batch, single_row;
   auto since = writer_->prepare(
       "SELECT id, transect_key, image_key FROM observations WHERE id > ? ORDER BY id");
   std::int64_t max_row_id = 0;
@@ -293,12 +295,13 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
     if (q.step()) max_row_id = q.integer(0);
   }
   std::vector<Inserted> inserted;
-  for (std::size_t begin = 0; begin < order.size(); begin += kRowsPerInsert) {
-    const std::size_t n = std::min(kRowsPerInsert, order.size() - begin);
-    std::optional<Statement> tail;
-    if (n == kRowsPerInsert && !full_batch) full_batch.emplace(writer_->prepare(observation_insert_sql(n)));
-    if (n != kRowsPerInsert) tail.emplace(writer_->prepare(observation_insert_sql(n)));
-    Statement& insert = n == kRowsPerInsert ? *full_batch : *tail;
+  for (std::size_t begin = 0, n = 0; begin < order.size(); begin += n) {
+    // Full batches, then the last rows one by one: two statement shapes only
+    // (prepared statements are cached per connection).
+    n = order.size() - begin >= kRowsPerInsert ? kRowsPerInsert : 1;
+    std::optional<Statement>& slot = n == kRowsPerInsert ? full_batch : single_row;
+    if (!slot) slot.emplace(writer_->prepare(observation_insert_sql(n)));
+    Statement& insert = *slot;
     insert.bind(1, out.result.upload_id).bind(2, key);
     for (std::size_t j = 0; j < n; ++j) {
       const Keyed& k = order[begin + j];
