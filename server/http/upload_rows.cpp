@@ -86,13 +86,42 @@ bool in_range(double v, double lo, double hi, const char* name, std::int64_t lin
   return false;
 }
 
-}  // namespace
-
-namespace {
-
 ParsedUpload<store::ObservationRow> parse_observation_part(std::string_view body, BodyFormat format,
                                                            const std::set<std::string>& transects,
-                                                           const SensorTable& sensors);
+                                                           const SensorTable& sensors) {
+  static const std::vector<std::string> kColumns = {"transect_id", "time",           "chainage_m",   "sensor",
+                                                    "image_id",    "cloud_fraction", "georef_rmse_m"};
+  TabularBody table(body, format, kColumns, "observations");
+  CsvHeader header(table.header(), "body");
+  ObservationColumns columns;
+  try {
+    columns = ObservationColumns::from_header(header, "body");
+  } catch (const InputError& e) {
+    throw Problem(422, problem_type::invalid_body, "Invalid columns", e.what());
+  }
+  ParsedUpload<store::ObservationRow> out;
+  out.rows.reserve(body.size() / 48);  // a row is at least ~48 bytes of CSV: no regrowth copies
+  ObservationRow row;
+  table.for_each([&](const std::vector<std::string>& fields, const RowSource& source) {
+    ++out.received;
+    if (fields.empty()) {
+      out.invalid.push_back(structure_issue(source));
+      return;
+    }
+    if (auto p = validate_observation_row(fields, columns, &sensors, row)) {
+      out.invalid.push_back({source.line, "", p->field, p->value, p->reason});
+      return;
+    }
+    if (!transects.count(row.transect_id)) {
+      out.invalid.push_back({source.line, "", "transect_id", row.transect_id,
+                             "transect not defined for this site (PUT its transects first)"});
+      return;
+    }
+    out.rows.push_back({source.line, row.transect_id, row.image_id, row.sensor, row.time_s, row.chainage_raw_m,
+                        row.cloud_fraction, row.georef_rmse_m});
+  });
+  return out;
+}
 
 constexpr std::size_t kSplitBytes = 8u << 20;  // bodies above this are parsed on two threads
 
@@ -148,47 +177,6 @@ ParsedUpload<store::ObservationRow> parse_observation_upload(std::string_view bo
     if (auto halves = parse_in_halves(body, transects, sensors)) return std::move(*halves);
   return parse_observation_part(body, format, transects, sensors);
 }
-
-namespace {
-
-ParsedUpload<store::ObservationRow> parse_observation_part(std::string_view body, BodyFormat format,
-                                                           const std::set<std::string>& transects,
-                                                           const SensorTable& sensors) {
-  static const std::vector<std::string> kColumns = {"transect_id", "time",           "chainage_m",   "sensor",
-                                                    "image_id",    "cloud_fraction", "georef_rmse_m"};
-  TabularBody table(body, format, kColumns, "observations");
-  CsvHeader header(table.header(), "body");
-  ObservationColumns columns;
-  try {
-    columns = ObservationColumns::from_header(header, "body");
-  } catch (const InputError& e) {
-    throw Problem(422, problem_type::invalid_body, "Invalid columns", e.what());
-  }
-  ParsedUpload<store::ObservationRow> out;
-  out.rows.reserve(body.size() / 48);  // a row is at least ~48 bytes of CSV: no regrowth copies
-  ObservationRow row;
-  table.for_each([&](const std::vector<std::string>& fields, const RowSource& source) {
-    ++out.received;
-    if (fields.empty()) {
-      out.invalid.push_back(structure_issue(source));
-      return;
-    }
-    if (auto p = validate_observation_row(fields, columns, &sensors, row)) {
-      out.invalid.push_back({source.line, "", p->field, p->value, p->reason});
-      return;
-    }
-    if (!transects.count(row.transect_id)) {
-      out.invalid.push_back({source.line, "", "transect_id", row.transect_id,
-                             "transect not defined for this site (PUT its transects first)"});
-      return;
-    }
-    out.rows.push_back({source.line, row.transect_id, row.image_id, row.sensor, row.time_s, row.chainage_raw_m,
-                        row.cloud_fraction, row.georef_rmse_m});
-  });
-  return out;
-}
-
-}  // namespace
 
 ParsedUpload<store::WaterLevelRow> parse_water_level_upload(std::string_view body, BodyFormat format) {
   static const std::vector<std::string> kColumns = {"time", "level_m"};

@@ -345,12 +345,13 @@ int SqliteStore::fail_interrupted_runs() {
 // ---------------------------------------------------------------- results
 
 namespace {
-TransectResult read_result(const Statement& q) {
+// Columns: seq, run_id, transect_id, summary, sha256.
+TransectResult read_result(const Statement& q, bool with_summary = true) {
   TransectResult r;
   r.seq = q.integer(0);
   r.run_id = q.integer(1);
   r.transect_id = q.text(2);
-  r.summary = nlohmann::json::parse(q.text_view(3));
+  if (with_summary) r.summary = nlohmann::json::parse(q.text_view(3));
   r.sha256 = q.text(4);
   return r;
 }
@@ -362,16 +363,11 @@ std::optional<TransectResult> SqliteStore::result(const std::string& site_id, co
   auto db = reader();
   const auto key = site_key(*db, site_id);
   auto q = db->prepare(
-      "SELECT seq, run_id, sha256, summary FROM results WHERE site_key = ? AND transect_id = ? AND (? = 0 OR run_id = ?) "
-      "ORDER BY run_id DESC LIMIT 1");
+      "SELECT seq, run_id, transect_id, summary, sha256 FROM results WHERE site_key = ? AND transect_id = ? AND "
+      "(? = 0 OR run_id = ?) ORDER BY run_id DESC LIMIT 1");
   q.bind(1, key).bind(2, transect_id).bind(3, run_id).bind(4, run_id);
   if (!q.step()) return std::nullopt;
-  TransectResult r;
-  r.seq = q.integer(0);
-  r.run_id = q.integer(1);
-  r.transect_id = transect_id;
-  r.sha256 = q.text(2);
-  if (with_summary) r.summary = nlohmann::json::parse(q.text_view(3));
+  TransectResult r = read_result(q, with_summary);
   const bool json = text == SeriesText::json;
   // The gzip member when asked for and stored, else the identity document: one
   // keyed lookup each (a single query ordering both would copy both documents).

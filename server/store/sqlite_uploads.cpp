@@ -147,10 +147,8 @@ class IdInterner {
       key = db_.last_insert_rowid();
     }
     find_.reset();
-    names_.emplace(key, name);
     return remember(keys_.emplace(name, key).first);
   }
-  const std::string& name(std::int64_t key) const { return names_.at(key); }
 
  private:
   std::int64_t site_key_;
@@ -158,7 +156,6 @@ class IdInterner {
   Statement find_, add_;
   Connection& db_;
   std::unordered_map<std::string, std::int64_t> keys_;
-  std::unordered_map<std::int64_t, std::string> names_;
   const std::string* last_ = nullptr;  // points into keys_ (node-based: stable)
   std::int64_t last_key_ = 0;
 
@@ -258,7 +255,7 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
   auto existing = writer_->prepare(
       "SELECT time_s, chainage_m, sensor, cloud_fraction, georef_rmse_m FROM observations "
       "WHERE site_key = ? AND transect_key = ? AND image_key = ? AND live = 1");
-  std::vector<std::int64_t> touched;  // transect keys, in key order
+  std::vector<std::string> touched;  // transect ids, one per run of rows in key order
   std::int64_t first_row_id = 0, last_row_id = 0;
   // A row the insert skipped meets a stored live row: identical is a duplicate,
   // anything else a conflict.
@@ -340,7 +337,8 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
         ++out.result.inserted;
         first_row_id = first_row_id == 0 ? next->row_id : std::min(first_row_id, next->row_id);
         last_row_id = std::max(last_row_id, next->row_id);
-        if (touched.empty() || touched.back() != k.transect_key) touched.push_back(k.transect_key);
+        const std::string& transect = rows[k.index].transect_id;
+        if (touched.empty() || touched.back() != transect) touched.push_back(transect);
         ++next;
       } else {
         compare_with_stored(k);
@@ -356,10 +354,8 @@ UploadResult SqliteStore::add_observations(const std::string& site_id, const Upl
         .bind(2, last_row_id)
         .bind(3, out.result.upload_id)
         .run();
-  std::vector<std::string> touched_ids;
-  for (const auto t : touched) touched_ids.push_back(transects.name(t));
-  std::sort(touched_ids.begin(), touched_ids.end());
-  for (const auto& t : touched_ids) record_change(*writer_, key, t, out.result.upload_id);
+  std::sort(touched.begin(), touched.end());
+  for (const auto& t : touched) record_change(*writer_, key, t, out.result.upload_id);
   tx.commit();
   return out.result;
 }
