@@ -3,42 +3,37 @@
 #include <algorithm>
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "qc/residual_table.h"
 #include "qc/robust_stats.h"
 
 namespace strandline {
 
+const ParamList<AlongshoreStep::Params>& AlongshoreStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "neighbours", .member = member_of<&Params::neighbours>, .lower = at_least(1), .upper = at_most(100),
+       .meaning = "neighbouring transects compared on each side"},
+      {.name = "min_neighbours", .member = member_of<&Params::min_neighbours>, .lower = at_least(1),
+       .meaning = "neighbours needed on the image; at most twice `neighbours`"},
+      {.name = "k", .member = member_of<&Params::k>, .lower = greater_than(0),
+       .meaning = "flagged beyond k times the combined noise of the point and the neighbours' median"},
+      {.name = "min_threshold_m", .member = member_of<&Params::min_threshold_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "differences up to this are never flagged"},
+      {.name = "level_half_window_days", .member = member_of<&Params::level_half_window_days>, .unit = "days",
+       .lower = greater_than(0), .meaning = "half-window of the running median the residuals are taken from"},
+  };
+  return list;
+}
+
 void AlongshoreStep::Params::validate(const std::string& pointer) const {
-  if (neighbours < 1 || neighbours > 100) throw ConfigError(pointer + "/neighbours", "expected 1 to 100");
-  if (min_neighbours < 1 || min_neighbours > 2 * neighbours)
-    throw ConfigError(pointer + "/min_neighbours", "expected 1 to twice `neighbours`");
-  if (!(k > 0)) throw ConfigError(pointer + "/k", "expected a positive number");
-  if (!(min_threshold_m >= 0)) throw ConfigError(pointer + "/min_threshold_m", "expected a non-negative number of metres");
-  if (!(level_half_window_days > 0))
-    throw ConfigError(pointer + "/level_half_window_days", "expected a positive number of days");
+  if (min_neighbours > 2 * neighbours)
+    throw ConfigError(pointer + "/min_neighbours", "expected at most twice `neighbours`");
 }
 
 std::unique_ptr<Step> AlongshoreStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.integer("neighbours", p.neighbours);
-  r.integer("min_neighbours", p.min_neighbours);
-  r.number("k", p.k);
-  r.number("min_threshold_m", p.min_threshold_m);
-  r.number("level_half_window_days", p.level_half_window_days);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<AlongshoreStep>(p);
+  return std::make_unique<AlongshoreStep>(read_params(Params::fields(), params, pointer));
 }
 
-AlongshoreStep::AlongshoreStep(const Params& p)
-    : SiteStep("alongshore", {{"neighbours", p.neighbours},
-                              {"min_neighbours", p.min_neighbours},
-                              {"k", p.k},
-                              {"min_threshold_m", p.min_threshold_m},
-                              {"level_half_window_days", p.level_half_window_days}}),
-      p_(p) {}
+AlongshoreStep::AlongshoreStep(const Params& p) : SiteStep("alongshore", params_json(Params::fields(), p)), p_(p) {}
 
 void AlongshoreStep::process(SiteTable& table, const RunInputs& inputs, StepLog& log) const {
   const ResidualTable res = build_residual_table(table, inputs, {p_.level_half_window_days, 5, true}, 0);

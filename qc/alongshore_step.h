@@ -9,6 +9,7 @@
 // efficiency loss of a median).
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -21,7 +22,8 @@ class AlongshoreStep final : public SiteStep {
     double k = 4.0;
     double min_threshold_m = 20.0;
     double level_half_window_days = 45.0;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
+    void validate(const std::string& pointer) const;  // rules between fields
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit AlongshoreStep(const Params& p);

@@ -2,30 +2,27 @@
 
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "qc/transect_series.h"
 
 namespace strandline {
 
-void DespikeStep::Params::validate(const std::string& pointer) const {
-  if (!(k > 0)) throw ConfigError(pointer + "/k", "expected a positive number");
-  if (!(min_jump_m >= 0)) throw ConfigError(pointer + "/min_jump_m", "expected a non-negative number of metres");
-  if (!(max_gap_days > 0)) throw ConfigError(pointer + "/max_gap_days", "expected a positive number of days");
+const ParamList<DespikeStep::Params>& DespikeStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "k", .member = member_of<&Params::k>, .lower = greater_than(0),
+       .meaning = "both jumps exceed k √(noise² + noise_neighbour²)"},
+      {.name = "min_jump_m", .member = member_of<&Params::min_jump_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "and both exceed this"},
+      {.name = "max_gap_days", .member = member_of<&Params::max_gap_days>, .unit = "days", .lower = greater_than(0),
+       .meaning = "neighbours farther apart in time are not compared"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> DespikeStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("k", p.k);
-  r.number("min_jump_m", p.min_jump_m);
-  r.number("max_gap_days", p.max_gap_days);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<DespikeStep>(p);
+  return std::make_unique<DespikeStep>(read_params(Params::fields(), params, pointer));
 }
 
-DespikeStep::DespikeStep(const Params& p)
-    : TransectStep("despike", {{"k", p.k}, {"min_jump_m", p.min_jump_m}, {"max_gap_days", p.max_gap_days}}), p_(p) {}
+DespikeStep::DespikeStep(const Params& p) : TransectStep("despike", params_json(Params::fields(), p)), p_(p) {}
 
 void DespikeStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs, StepLog& log) const {
   const TransectInfo& t = table.transects[transect];

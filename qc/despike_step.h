@@ -6,6 +6,7 @@
 // storm_response points are left alone.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -16,7 +17,7 @@ class DespikeStep final : public TransectStep {
     double k = 4.0;
     double min_jump_m = 20.0;
     double max_gap_days = 60.0;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit DespikeStep(const Params& p);

@@ -2,37 +2,30 @@
 
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "qc/robust_stats.h"
 #include "qc/transect_series.h"
 
 namespace strandline {
 
-void HampelStep::Params::validate(const std::string& pointer) const {
-  if (!(half_window_days > 0)) throw ConfigError(pointer + "/half_window_days", "expected a positive number of days");
-  if (min_points < 3 || min_points > 1000) throw ConfigError(pointer + "/min_points", "expected 3 to 1000");
-  if (!(k > 0)) throw ConfigError(pointer + "/k", "expected a positive number");
-  if (!(min_threshold_m >= 0)) throw ConfigError(pointer + "/min_threshold_m", "expected a non-negative number of metres");
+const ParamList<HampelStep::Params>& HampelStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "half_window_days", .member = member_of<&Params::half_window_days>, .unit = "days",
+       .lower = greater_than(0), .meaning = "half-width of the running window"},
+      {.name = "min_points", .member = member_of<&Params::min_points>, .lower = at_least(3), .upper = at_most(1000),
+       .meaning = "a sparser window widens to the nearest this many usable points"},
+      {.name = "k", .member = member_of<&Params::k>, .lower = greater_than(0),
+       .meaning = "flagged beyond k times the robust scale max(1.4826 MAD, noise)"},
+      {.name = "min_threshold_m", .member = member_of<&Params::min_threshold_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "deviations up to this are never flagged"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> HampelStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("half_window_days", p.half_window_days);
-  r.integer("min_points", p.min_points);
-  r.number("k", p.k);
-  r.number("min_threshold_m", p.min_threshold_m);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<HampelStep>(p);
+  return std::make_unique<HampelStep>(read_params(Params::fields(), params, pointer));
 }
 
-HampelStep::HampelStep(const Params& p)
-    : TransectStep("hampel", {{"half_window_days", p.half_window_days},
-                              {"min_points", p.min_points},
-                              {"k", p.k},
-                              {"min_threshold_m", p.min_threshold_m}}),
-      p_(p) {}
+HampelStep::HampelStep(const Params& p) : TransectStep("hampel", params_json(Params::fields(), p)), p_(p) {}
 
 void HampelStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs, StepLog& log) const {
   const TransectInfo& t = table.transects[transect];

@@ -9,6 +9,7 @@
 // left alone.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -20,7 +21,7 @@ class HampelStep final : public TransectStep {
     long long min_points = 7;
     double k = 3.0;
     double min_threshold_m = 10.0;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit HampelStep(const Params& p);

@@ -3,47 +3,37 @@
 #include <cmath>
 #include <numbers>
 
-#include "corrections/core/param_reader.h"
 #include "qc/residual_table.h"
 #include "qc/robust_stats.h"
 
 namespace strandline {
 
-void ImageMisregistrationStep::Params::validate(const std::string& pointer) const {
-  if (min_transects < 3 || min_transects > 100000) throw ConfigError(pointer + "/min_transects", "expected at least 3");
-  if (!(alpha > 0 && alpha < 1)) throw ConfigError(pointer + "/alpha", "expected a probability in (0, 1)");
-  if (!(min_shift_m >= 0)) throw ConfigError(pointer + "/min_shift_m", "expected a non-negative number of metres");
-  if (!(inlier_k > 0)) throw ConfigError(pointer + "/inlier_k", "expected a positive number");
-  if (!(level_half_window_days > 0))
-    throw ConfigError(pointer + "/level_half_window_days", "expected a positive number of days");
-  if (!(storm_share_max > 0 && storm_share_max <= 1))
-    throw ConfigError(pointer + "/storm_share_max", "expected a fraction in (0, 1]");
+const ParamList<ImageMisregistrationStep::Params>& ImageMisregistrationStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "min_transects", .member = member_of<&Params::min_transects>, .lower = at_least(3),
+       .upper = at_most(100000), .meaning = "transects an image needs (also after the inlier refit) to be tested"},
+      {.name = "alpha", .member = member_of<&Params::alpha>, .lower = greater_than(0), .upper = less_than(1),
+       .meaning = "the fit's chi-square drop must have a tail probability below this"},
+      {.name = "min_shift_m", .member = member_of<&Params::min_shift_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "least rms fitted offset over the image's transects to reject it"},
+      {.name = "inlier_k", .member = member_of<&Params::inlier_k>, .lower = greater_than(0),
+       .meaning = "inliers lie within inlier_k noise of the fit"},
+      {.name = "use_geometry", .member = member_of<&Params::use_geometry>,
+       .meaning = "fit a 2-D shift along each transect's azimuth when every transect has geometry"},
+      {.name = "level_half_window_days", .member = member_of<&Params::level_half_window_days>, .unit = "days",
+       .lower = greater_than(0), .meaning = "half-window of the running median the residuals are taken from"},
+      {.name = "storm_share_max", .member = member_of<&Params::storm_share_max>, .lower = greater_than(0),
+       .upper = at_most(1), .meaning = "images with at least this share of storm-response points are not tested"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> ImageMisregistrationStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.integer("min_transects", p.min_transects);
-  r.number("alpha", p.alpha);
-  r.number("min_shift_m", p.min_shift_m);
-  r.number("inlier_k", p.inlier_k);
-  r.boolean("use_geometry", p.use_geometry);
-  r.number("level_half_window_days", p.level_half_window_days);
-  r.number("storm_share_max", p.storm_share_max);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<ImageMisregistrationStep>(p);
+  return std::make_unique<ImageMisregistrationStep>(read_params(Params::fields(), params, pointer));
 }
 
 ImageMisregistrationStep::ImageMisregistrationStep(const Params& p)
-    : SiteStep("image_misregistration", {{"min_transects", p.min_transects},
-                                         {"alpha", p.alpha},
-                                         {"min_shift_m", p.min_shift_m},
-                                         {"inlier_k", p.inlier_k},
-                                         {"use_geometry", p.use_geometry},
-                                         {"level_half_window_days", p.level_half_window_days},
-                                         {"storm_share_max", p.storm_share_max}}),
-      p_(p) {}
+    : SiteStep("image_misregistration", params_json(Params::fields(), p)), p_(p) {}
 
 namespace {
 

@@ -15,6 +15,7 @@
 // transect landward at once, which is real change, not misregistration.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -29,7 +30,7 @@ class ImageMisregistrationStep final : public SiteStep {
     bool use_geometry = true;
     double level_half_window_days = 45.0;
     double storm_share_max = 0.25;  // images with at least this share of storm_response points are not tested
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit ImageMisregistrationStep(const Params& p);

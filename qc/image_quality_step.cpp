@@ -1,29 +1,24 @@
 #include "qc/image_quality_step.h"
 
-#include "corrections/core/param_reader.h"
-
 namespace strandline {
 
-void ImageQualityStep::Params::validate(const std::string& pointer) const {
-  if (!(cloud_fraction_max >= 0 && cloud_fraction_max <= 1))
-    throw ConfigError(pointer + "/cloud_fraction_max", "expected a fraction in [0, 1]");
-  if (!(georef_rmse_max_m > 0)) throw ConfigError(pointer + "/georef_rmse_max_m", "expected a positive number of metres");
+const ParamList<ImageQualityStep::Params>& ImageQualityStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "cloud_fraction_max", .member = member_of<&Params::cloud_fraction_max>, .lower = at_least(0),
+       .upper = at_most(1),
+       .meaning = "images more cloudy than this are rejected (cloudy_image); unknown cloud never rejects"},
+      {.name = "georef_rmse_max_m", .member = member_of<&Params::georef_rmse_max_m>, .unit = "m",
+       .lower = greater_than(0), .meaning = "images with a larger geolocation RMSE are rejected (poor_georeference)"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> ImageQualityStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("cloud_fraction_max", p.cloud_fraction_max);
-  r.number("georef_rmse_max_m", p.georef_rmse_max_m);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<ImageQualityStep>(p);
+  return std::make_unique<ImageQualityStep>(read_params(Params::fields(), params, pointer));
 }
 
 ImageQualityStep::ImageQualityStep(const Params& p)
-    : TransectStep("image_quality",
-                   {{"cloud_fraction_max", p.cloud_fraction_max}, {"georef_rmse_max_m", p.georef_rmse_max_m}}),
-      p_(p) {}
+    : TransectStep("image_quality", params_json(Params::fields(), p)), p_(p) {}
 
 void ImageQualityStep::process(SiteTable& table, std::size_t transect, const RunInputs&, StepLog& log) const {
   const TransectInfo& t = table.transects[transect];

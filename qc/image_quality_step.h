@@ -9,6 +9,7 @@
 // filters catch what the cloud did to the waterline.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -18,7 +19,7 @@ class ImageQualityStep final : public TransectStep {
   struct Params {
     double cloud_fraction_max = 0.75;
     double georef_rmse_max_m = 15.0;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit ImageQualityStep(const Params& p);

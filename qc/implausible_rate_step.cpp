@@ -2,32 +2,30 @@
 
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "qc/transect_series.h"
 
 namespace strandline {
 
-void ImplausibleRateStep::Params::validate(const std::string& pointer) const {
-  if (!(max_rate_m_per_day > 0)) throw ConfigError(pointer + "/max_rate_m_per_day", "expected a positive rate");
-  if (!(k > 0)) throw ConfigError(pointer + "/k", "expected a positive number");
-  if (max_consecutive < 1 || max_consecutive > 100) throw ConfigError(pointer + "/max_consecutive", "expected 1 to 100");
+const ParamList<ImplausibleRateStep::Params>& ImplausibleRateStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "max_rate_m_per_day", .member = member_of<&Params::max_rate_m_per_day>, .unit = "m/day",
+       .lower = greater_than(0),
+       .meaning = "fastest change allowed outside storms (common practice: well below 1 m/day)"},
+      {.name = "k", .member = member_of<&Params::k>, .lower = greater_than(0),
+       .meaning = "k √(noise² + noise_ref²) allowed on top of the rate"},
+      {.name = "max_consecutive", .member = member_of<&Params::max_consecutive>, .lower = at_least(1),
+       .upper = at_most(100),
+       .meaning = "more failures in a row than this release them: the reference was the odd one"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> ImplausibleRateStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("max_rate_m_per_day", p.max_rate_m_per_day);
-  r.number("k", p.k);
-  r.integer("max_consecutive", p.max_consecutive);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<ImplausibleRateStep>(p);
+  return std::make_unique<ImplausibleRateStep>(read_params(Params::fields(), params, pointer));
 }
 
 ImplausibleRateStep::ImplausibleRateStep(const Params& p)
-    : TransectStep("implausible_rate",
-                   {{"max_rate_m_per_day", p.max_rate_m_per_day}, {"k", p.k}, {"max_consecutive", p.max_consecutive}}),
-      p_(p) {}
+    : TransectStep("implausible_rate", params_json(Params::fields(), p)), p_(p) {}
 
 void ImplausibleRateStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs,
                                   StepLog& log) const {

@@ -9,6 +9,7 @@
 // become the reference.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -19,7 +20,7 @@ class ImplausibleRateStep final : public TransectStep {
     double max_rate_m_per_day = 1.0;  // common practice: sustained non-storm change is well below 1 m/day
     double k = 4.0;
     long long max_consecutive = 2;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit ImplausibleRateStep(const Params& p);

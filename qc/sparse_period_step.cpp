@@ -1,27 +1,25 @@
 #include "qc/sparse_period_step.h"
 
-#include "corrections/core/param_reader.h"
 #include "qc/transect_series.h"
 
 namespace strandline {
 
-void SparsePeriodStep::Params::validate(const std::string& pointer) const {
-  if (!(half_window_days > 0)) throw ConfigError(pointer + "/half_window_days", "expected a positive number of days");
-  if (min_points < 1 || min_points > 1000) throw ConfigError(pointer + "/min_points", "expected 1 to 1000");
+const ParamList<SparsePeriodStep::Params>& SparsePeriodStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "half_window_days", .member = member_of<&Params::half_window_days>, .unit = "days",
+       .lower = greater_than(0), .meaning = "half-width of the window around each accepted point"},
+      {.name = "min_points", .member = member_of<&Params::min_points>, .lower = at_least(1), .upper = at_most(1000),
+       .meaning = "fewer accepted points (the point included) in the window warn"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> SparsePeriodStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("half_window_days", p.half_window_days);
-  r.integer("min_points", p.min_points);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<SparsePeriodStep>(p);
+  return std::make_unique<SparsePeriodStep>(read_params(Params::fields(), params, pointer));
 }
 
 SparsePeriodStep::SparsePeriodStep(const Params& p)
-    : TransectStep("sparse_period", {{"half_window_days", p.half_window_days}, {"min_points", p.min_points}}), p_(p) {}
+    : TransectStep("sparse_period", params_json(Params::fields(), p)), p_(p) {}
 
 void SparsePeriodStep::process(SiteTable& table, std::size_t transect, const RunInputs&, StepLog& log) const {
   const TransectInfo& t = table.transects[transect];

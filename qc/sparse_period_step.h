@@ -3,6 +3,7 @@
 // Trends and filters lean on few points there.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -12,7 +13,7 @@ class SparsePeriodStep final : public TransectStep {
   struct Params {
     double half_window_days = 60.0;
     long long min_points = 3;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit SparsePeriodStep(const Params& p);

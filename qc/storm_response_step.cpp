@@ -3,73 +3,52 @@
 #include <algorithm>
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "qc/robust_stats.h"
 #include "qc/transect_series.h"
 
 namespace strandline {
 
-void StormResponseStep::Params::validate(const std::string& pointer) const {
-  auto positive = [&](double v, const char* key) {
-    if (!(v > 0)) throw ConfigError(pointer + "/" + key, "expected a positive number");
+const ParamList<StormResponseStep::Params>& StormResponseStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "hs_threshold_m", .member = member_of<&Params::hs_threshold_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "Hs above which a storm is on; 0 = automatic: max(`hs_min_m`, the `hs_quantile` of the record)"},
+      {.name = "hs_quantile", .member = member_of<&Params::hs_quantile>, .lower = greater_than(0),
+       .upper = less_than(1),
+       .meaning = "quantile of the record's Hs over the observed span for the automatic threshold"},
+      {.name = "hs_min_m", .member = member_of<&Params::hs_min_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "least automatic threshold"},
+      {.name = "scan_step_s", .member = member_of<&Params::scan_step_s>, .unit = "s", .lower = greater_than(0),
+       .meaning = "time step of the scan of the wave record"},
+      {.name = "max_gap_s", .member = member_of<&Params::max_gap_s>, .unit = "s", .lower = greater_than(0),
+       .meaning = "wave records around a scan time at most this far apart"},
+      {.name = "merge_gap_days", .member = member_of<&Params::merge_gap_days>, .unit = "days", .lower = at_least(0),
+       .meaning = "events closer than this are one event"},
+      {.name = "pre_window_days", .member = member_of<&Params::pre_window_days>, .unit = "days",
+       .lower = greater_than(0), .meaning = "window before a storm for the pre-storm level (median)"},
+      {.name = "min_pre_points", .member = member_of<&Params::min_pre_points>, .lower = at_least(1),
+       .meaning = "usable points needed in that window"},
+      {.name = "jump_min_m", .member = member_of<&Params::jump_min_m>, .unit = "m", .lower = greater_than(0),
+       .meaning = "least landward jump from the pre-storm level"},
+      {.name = "jump_noise_k", .member = member_of<&Params::jump_noise_k>, .lower = greater_than(0),
+       .meaning = "the jump is at least jump_noise_k noise"},
+      {.name = "persist_points", .member = member_of<&Params::persist_points>, .lower = at_least(1),
+       .upper = at_most(50), .meaning = "following usable points whose median must stay landward by half the jump"},
+      {.name = "persist_days", .member = member_of<&Params::persist_days>, .unit = "days", .lower = greater_than(0),
+       .meaning = "how far ahead those points may lie"},
+      {.name = "consistency_k", .member = member_of<&Params::consistency_k>, .lower = greater_than(0),
+       .meaning = "the point agrees with that median within consistency_k noise"},
+      {.name = "max_response_days", .member = member_of<&Params::max_response_days>, .unit = "days",
+       .lower = greater_than(0), .meaning = "scanning of an event stops this long after it"},
   };
-  if (!(hs_threshold_m >= 0)) throw ConfigError(pointer + "/hs_threshold_m", "expected 0 (automatic) or a height in metres");
-  if (!(hs_quantile > 0 && hs_quantile < 1)) throw ConfigError(pointer + "/hs_quantile", "expected a fraction in (0, 1)");
-  if (!(hs_min_m >= 0)) throw ConfigError(pointer + "/hs_min_m", "expected a non-negative height");
-  positive(scan_step_s, "scan_step_s");
-  positive(max_gap_s, "max_gap_s");
-  if (!(merge_gap_days >= 0)) throw ConfigError(pointer + "/merge_gap_days", "expected a non-negative number");
-  positive(pre_window_days, "pre_window_days");
-  positive(jump_min_m, "jump_min_m");
-  positive(jump_noise_k, "jump_noise_k");
-  if (persist_points < 1 || persist_points > 50) throw ConfigError(pointer + "/persist_points", "expected 1 to 50");
-  positive(persist_days, "persist_days");
-  positive(consistency_k, "consistency_k");
-  positive(max_response_days, "max_response_days");
-  if (min_pre_points < 1) throw ConfigError(pointer + "/min_pre_points", "expected at least 1");
+  return list;
 }
 
 std::unique_ptr<Step> StormResponseStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("hs_threshold_m", p.hs_threshold_m);
-  r.number("hs_quantile", p.hs_quantile);
-  r.number("hs_min_m", p.hs_min_m);
-  r.number("scan_step_s", p.scan_step_s);
-  r.number("max_gap_s", p.max_gap_s);
-  r.number("merge_gap_days", p.merge_gap_days);
-  r.number("pre_window_days", p.pre_window_days);
-  long long min_pre = static_cast<long long>(p.min_pre_points);
-  r.integer("min_pre_points", min_pre);
-  if (min_pre < 1) r.fail("min_pre_points", "expected at least 1");
-  p.min_pre_points = static_cast<std::size_t>(min_pre);
-  r.number("jump_min_m", p.jump_min_m);
-  r.number("jump_noise_k", p.jump_noise_k);
-  r.integer("persist_points", p.persist_points);
-  r.number("persist_days", p.persist_days);
-  r.number("consistency_k", p.consistency_k);
-  r.number("max_response_days", p.max_response_days);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<StormResponseStep>(p);
+  return std::make_unique<StormResponseStep>(read_params(Params::fields(), params, pointer));
 }
 
 StormResponseStep::StormResponseStep(const Params& p)
-    : SiteStep("storm_response", {{"hs_threshold_m", p.hs_threshold_m},
-                                  {"hs_quantile", p.hs_quantile},
-                                  {"hs_min_m", p.hs_min_m},
-                                  {"scan_step_s", p.scan_step_s},
-                                  {"max_gap_s", p.max_gap_s},
-                                  {"merge_gap_days", p.merge_gap_days},
-                                  {"pre_window_days", p.pre_window_days},
-                                  {"min_pre_points", p.min_pre_points},
-                                  {"jump_min_m", p.jump_min_m},
-                                  {"jump_noise_k", p.jump_noise_k},
-                                  {"persist_points", p.persist_points},
-                                  {"persist_days", p.persist_days},
-                                  {"consistency_k", p.consistency_k},
-                                  {"max_response_days", p.max_response_days}}),
-      p_(p) {}
+    : SiteStep("storm_response", params_json(Params::fields(), p)), p_(p) {}
 
 std::vector<StormEventSpan> StormResponseStep::find_events(const WaveSource& waves, TimeS from_s, TimeS to_s,
                                                            double& threshold_m) const {
@@ -135,7 +114,7 @@ void StormResponseStep::process(SiteTable& table, const RunInputs& inputs, StepL
       for (auto k = first_at_or_after(ev.start_s - p_.pre_window_days * day);
            k < static_cast<std::ptrdiff_t>(rows.size()) && table.time_s[rows[k]] < ev.start_s; ++k)
         pre.push_back(table.chainage_m[rows[k]]);
-      if (pre.size() < p_.min_pre_points) {
+      if (static_cast<long long>(pre.size()) < p_.min_pre_points) {
         log.count("events_without_pre_storm_level");
         continue;
       }

@@ -18,6 +18,7 @@
 
 #include <vector>
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -37,14 +38,14 @@ class StormResponseStep final : public SiteStep {
     double max_gap_s = 6 * 3600.0;
     double merge_gap_days = 2.0;  // events closer than this are one event
     double pre_window_days = 45.0;
-    std::size_t min_pre_points = 3;
+    long long min_pre_points = 3;
     double jump_min_m = 10.0;
     double jump_noise_k = 2.0;
     long long persist_points = 3;
     double persist_days = 60.0;
     double consistency_k = 3.0;
     double max_response_days = 365.0;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit StormResponseStep(const Params& p);

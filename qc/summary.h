@@ -1,11 +1,19 @@
-// Per-transect and per-site summaries of a finished run (the summary JSON of the
-// batch CLI and GET /v1/sites/{site}/summary share it).
+// Per-transect and per-site summaries of a finished run, as typed values: unknown
+// numbers stay NaN, missing parts std::nullopt. server/io/summary_json writes them
+// (the batch summary file, GET /v1/sites/{site}/summary and the GeoPackage
+// transect layer all read that one form).
 #pragma once
+
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
 
 #include <nlohmann/json.hpp>
 
 #include "corrections/core/run_inputs.h"
 #include "corrections/core/site_table.h"
+#include "qc/trend_summary.h"
 
 namespace strandline {
 
@@ -16,13 +24,43 @@ struct SummaryOptions {
   TimeS trend_to_s = kUnknown;
 };
 
-nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, const RunInputs& inputs,
-                                const SummaryOptions& options);
+struct TransectSummary {
+  std::string transect_id;
+  double slope = kUnknown;
+  double slope_sigma = kUnknown;
+  double slope_ci95_low = kUnknown;  // the interval is reported only when `low` is known
+  double slope_ci95_high = kUnknown;
+  SlopeSource slope_source = SlopeSource::none;
+  bool slope_identifiable = true;
+  double z_ref_m = kUnknown;
+  std::size_t n_observations = 0;
+  std::size_t n_corrected = 0;  // with a corrected position
+  std::size_t n_accepted = 0;   // of those, carrying no rejecting flag
+  std::map<std::string, std::size_t> counts_by_flag;  // flag name -> points carrying it
+  TimeS first_accepted_s = kUnknown;
+  TimeS last_accepted_s = kUnknown;
+  double mean_interval_days = kUnknown;  // between accepted points; unknown with fewer than 2
+  TrendWindow trend_window;
+  std::optional<TrendSummary> trend;
+  std::optional<SeasonalSummary> seasonal;
+  std::vector<std::string> cautions;
+  nlohmann::json slope_details;  // the slope step's record, as it stored it (null: none)
+};
+
+struct SiteSummary {
+  int schema_version = kSummarySchemaVersion;
+  double reference_elevation_m = 0.0;
+  std::optional<WaveCorrection> wave_correction;  // none: the run had no wave record
+  std::vector<TransectSummary> transects;
+  std::vector<std::string> cautions;  // the standard cautions of every output
+};
+
+TransectSummary transect_summary(const SiteTable& table, std::size_t transect, const RunInputs& inputs,
+                                 const SummaryOptions& options);
 // The same without the run's inputs (the slope-bound re-evaluation then assumes a
 // slope-free wave term, exact for `none` and `setup`).
-nlohmann::json transect_summary(const SiteTable& table, std::size_t transect, const SummaryOptions& options);
+TransectSummary transect_summary(const SiteTable& table, std::size_t transect, const SummaryOptions& options);
 
-// {"schema_version", "transects": [...], "cautions": [...]}; callers add "provenance".
-nlohmann::json site_summary(const SiteTable& table, const RunInputs& inputs, const SummaryOptions& options);
+SiteSummary site_summary(const SiteTable& table, const RunInputs& inputs, const SummaryOptions& options);
 
 }  // namespace strandline

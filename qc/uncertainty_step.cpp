@@ -2,21 +2,21 @@
 
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "corrections/waves/stockdon.h"
 
 namespace strandline {
 
+const ParamList<UncertaintyStep::Params>& UncertaintyStep::Params::fields() {
+  static const ParamList<Params> list;
+  return list;
+}
+
 std::unique_ptr<Step> UncertaintyStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<UncertaintyStep>(p);
+  return std::make_unique<UncertaintyStep>(read_params(Params::fields(), params, pointer));
 }
 
 UncertaintyStep::UncertaintyStep(const Params& p)
-    : TransectStep("uncertainty", nlohmann::json::object()), p_(p) {}
+    : TransectStep("uncertainty", params_json(Params::fields(), p)), p_(p) {}
 
 void UncertaintyStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs,
                               StepLog& log) const {

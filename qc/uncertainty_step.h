@@ -11,6 +11,7 @@
 // trends carry it separately (see the summary), not as independent noise.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -18,7 +19,7 @@ namespace strandline {
 class UncertaintyStep final : public TransectStep {
  public:
   struct Params {
-    void validate(const std::string&) const {}
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit UncertaintyStep(const Params& p);

@@ -20,7 +20,8 @@ bool CsvReader::next(std::vector<std::string>& fields) {
       first_ = false;
       if (buffer_.size() >= 3 && buffer_.compare(0, 3, "\xEF\xBB\xBF") == 0) buffer_.erase(0, 3);
     }
-    if (!buffer_.empty() && buffer_.back() == '\r') buffer_.pop_back();
+    line_ends_crlf_ = !buffer_.empty() && buffer_.back() == '\r';
+    if (line_ends_crlf_) buffer_.pop_back();
     bool blank = true;
     for (char c : buffer_)
       if (c != ' ' && c != '\t') blank = false;
@@ -43,12 +44,14 @@ bool CsvReader::next(std::vector<std::string>& fields) {
   while (true) {
     if (i >= buffer_.size()) {
       if (in_quotes) {
-        // The quoted field continues on the next physical line.
+        // The quoted field continues on the next physical line; the line
+        // break inside the quotes is part of the field, CR LF or LF as written.
+        *field += line_ends_crlf_ ? "\r\n" : "\n";
         if (!std::getline(in_, buffer_))
           throw InputError(name_, record_line_, "", "", "unterminated quoted field");
         ++current_line_;
-        if (!buffer_.empty() && buffer_.back() == '\r') buffer_.pop_back();
-        *field += '\n';
+        line_ends_crlf_ = !buffer_.empty() && buffer_.back() == '\r';
+        if (line_ends_crlf_) buffer_.pop_back();
         i = 0;
         continue;
       }

@@ -32,6 +32,7 @@ class CsvReader {
   std::int64_t record_line_ = 0;
   bool first_ = true;
   std::string buffer_;
+  bool line_ends_crlf_ = false;  // the physical line in buffer_ ended with CR LF
 };
 
 // Maps header names to column positions and checks required/forbidden columns.

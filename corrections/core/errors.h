@@ -36,7 +36,16 @@ class InputError : public std::runtime_error {
   std::string reason;
 };
 
-// Bad command line or option combination.
+// A bad value handed to a library function (a rule name, a distance, a file
+// name's extension) rather than bad file content. Worded in terms of the value,
+// never of a CLI option: each face says where the value came from. An
+// InputError, so the faces map it like bad input (exit 2, HTTP 4xx).
+class ArgumentError : public InputError {
+ public:
+  explicit ArgumentError(const std::string& message) : InputError(message) {}
+};
+
+// Bad command line or option combination (the CLI face only).
 class UsageError : public std::runtime_error {
  public:
   using std::runtime_error::runtime_error;

@@ -53,13 +53,14 @@ struct SlopeValue {
   double slope_sigma = kUnknown;
 };
 
-// How each transect gets its slope.
+// How each transect gets its slope: a listed slope first, else the one slope for
+// every transect, else the estimate (when asked for), else the default.
 struct SlopePlan {
-  std::optional<SlopeValue> all;                            // --slope VALUE
-  std::unordered_map<std::string, SlopeValue> per_transect;  // --slopes / --transect-params
-  std::optional<SlopeValue> default_value;                  // --default-slope
-  bool estimate = false;                                    // --slope auto
-  double search_min = 0.01;                                 // --slope-range
+  std::optional<SlopeValue> all;                            // one slope for every transect
+  std::unordered_map<std::string, SlopeValue> per_transect;  // listed slopes, by transect id
+  std::optional<SlopeValue> default_value;                  // when nothing else gives one
+  bool estimate = false;                                    // estimate from the data (spectral search)
+  double search_min = 0.01;                                 // tan(beta) range of the estimate
   double search_max = 0.2;
 };
 

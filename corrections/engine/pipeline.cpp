@@ -5,7 +5,6 @@
 #include <thread>
 
 #include "corrections/core/param_reader.h"
-#include "corrections/engine/registry.h"
 
 namespace strandline {
 
@@ -17,7 +16,7 @@ nlohmann::json RunRecord::to_json() const {
   return j;
 }
 
-Pipeline Pipeline::from_config(const nlohmann::json& config) {
+Pipeline Pipeline::from_config(const nlohmann::json& config, const StepList& registry) {
   ParamReader top(config, "");
   long long schema = kConfigSchemaVersion;
   top.integer("schema_version", schema);
@@ -31,7 +30,6 @@ Pipeline Pipeline::from_config(const nlohmann::json& config) {
   top.finish();
   if (steps_json && !steps_json->is_object()) throw ConfigError("/steps", "expected a JSON object");
 
-  const auto& registry = step_registry();
   if (steps_json) {
     for (auto it = steps_json->begin(); it != steps_json->end(); ++it) {
       bool found = false;

@@ -1,6 +1,6 @@
 // A configured chain of steps and the runner that applies it to a SiteTable.
 //
-// Configuration JSON (the batch `--config` file and the service's run options):
+// Configuration JSON (the same object for batch runs and service runs):
 //   {"schema_version": 1,
 //    "threads": 0,                         // 0 = hardware concurrency
 //    "steps": {"<step>": {"enabled": true, ...step parameters...}}}
@@ -16,6 +16,7 @@
 #include <nlohmann/json.hpp>
 
 #include "corrections/core/step.h"
+#include "corrections/engine/step_entry.h"
 
 namespace strandline {
 
@@ -39,9 +40,8 @@ struct RunRecord {
 
 class Pipeline {
  public:
-  // Throws ConfigError.
-  static Pipeline from_config(const nlohmann::json& config);
-  static Pipeline defaults() { return from_config(nlohmann::json::object()); }
+  // The steps of `steps` (in that order) configured by `config`. Throws ConfigError.
+  static Pipeline from_config(const nlohmann::json& config, const StepList& steps);
 
   // Runs every step. Consecutive transect steps run transect by transect across
   // `threads` workers; site steps run alone between them. Per-transect state is

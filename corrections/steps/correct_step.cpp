@@ -1,7 +1,5 @@
 #include "corrections/steps/correct_step.h"
 
-#include "corrections/core/param_reader.h"
-
 namespace strandline {
 
 double horizontal_correction_m(double water_level_m, double wave_level_m, double z_ref_m, double slope) {
@@ -9,15 +7,16 @@ double horizontal_correction_m(double water_level_m, double wave_level_m, double
   return (water_level_m + wave_level_m - z_ref_m) / slope;
 }
 
-std::unique_ptr<Step> CorrectStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<CorrectStep>(p);
+const ParamList<CorrectStep::Params>& CorrectStep::Params::fields() {
+  static const ParamList<Params> list;
+  return list;
 }
 
-CorrectStep::CorrectStep(const Params& p) : TransectStep("correct", nlohmann::json::object()), p_(p) {}
+std::unique_ptr<Step> CorrectStep::make(const nlohmann::json& params, const std::string& pointer) {
+  return std::make_unique<CorrectStep>(read_params(Params::fields(), params, pointer));
+}
+
+CorrectStep::CorrectStep(const Params& p) : TransectStep("correct", params_json(Params::fields(), p)), p_(p) {}
 
 void CorrectStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs, StepLog& log) const {
   const TransectInfo& t = table.transects[transect];

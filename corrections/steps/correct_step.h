@@ -5,6 +5,7 @@
 // keep their raw values and an empty chainage_m.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -12,7 +13,7 @@ namespace strandline {
 class CorrectStep final : public TransectStep {
  public:
   struct Params {
-    void validate(const std::string&) const {}
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit CorrectStep(const Params& p);

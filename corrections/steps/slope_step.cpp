@@ -2,7 +2,6 @@
 
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "corrections/waves/stockdon.h"
 
 namespace strandline {
@@ -26,63 +25,49 @@ std::uint64_t transect_seed(std::uint64_t seed, const std::string& transect_id) 
   return seed ^ h;
 }
 
-void SlopeStep::Params::validate(const std::string& pointer) const {
-  auto fail = [&](const std::string& key, const std::string& reason) { throw ConfigError(pointer + "/" + key, reason); };
-  if (!(f_min_cpd > 0)) fail("f_min_cpd", "must be positive (cycles per day)");
-  if (!(f_max_cpd > f_min_cpd)) fail("f_max_cpd", "must exceed f_min_cpd");
-  if (n_frequencies < 16 || n_frequencies > 1000000) fail("n_frequencies", "expected 16 to 1000000");
-  if (!(band_half_width_cpd > 0)) fail("band_half_width_cpd", "must be positive (cycles per day)");
-  if (!(min_peak_to_median >= 1)) fail("min_peak_to_median", "must be at least 1");
-  if (min_images < 8) fail("min_images", "must be at least 8");
-  if (!(min_excursion_m >= 0)) fail("min_excursion_m", "must be zero or positive (metres)");
-  if (bootstrap_count < 0 || bootstrap_count > 100000) fail("bootstrap_count", "expected 0 to 100000");
-  if (seed < 0) fail("seed", "must be zero or positive");
-  if (!(screen_k > 0)) fail("screen_k", "must be positive");
-  if (screen_half_window < 1 || screen_half_window > 1000) fail("screen_half_window", "expected 1 to 1000 images");
-  if (screen_passes < 0 || screen_passes > 10) fail("screen_passes", "expected 0 to 10");
-  if (!(curve_step > 0 && curve_step < 1)) fail("curve_step", "expected a tan(beta) step between 0 and 1");
+const ParamList<SlopeStep::Params>& SlopeStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "f_min_cpd", .member = member_of<&Params::f_min_cpd>, .unit = "cycles/day", .lower = greater_than(0),
+       .meaning = "lowest frequency of the spectrum grid (1/400)"},
+      {.name = "f_max_cpd", .member = member_of<&Params::f_max_cpd>, .unit = "cycles/day", .lower = greater_than(0),
+       .meaning = "highest frequency of the grid (1/10); above `f_min_cpd`"},
+      {.name = "n_frequencies", .member = member_of<&Params::n_frequencies>, .lower = at_least(16),
+       .upper = at_most(1000000), .meaning = "frequencies of the grid"},
+      {.name = "band_half_width_cpd", .member = member_of<&Params::band_half_width_cpd>, .unit = "cycles/day",
+       .lower = greater_than(0), .meaning = "half-width of the tidal band around its peak (the published band)"},
+      {.name = "min_peak_to_median", .member = member_of<&Params::min_peak_to_median>, .lower = at_least(1),
+       .meaning = "peak over median power of a clear tidal peak"},
+      {.name = "min_images", .member = member_of<&Params::min_images>, .lower = at_least(8),
+       .meaning = "images needed for an estimate"},
+      {.name = "min_excursion_m", .member = member_of<&Params::min_excursion_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "a smaller horizontal tidal excursion makes the slope not identifiable"},
+      {.name = "bootstrap_count", .member = member_of<&Params::bootstrap_count>, .lower = at_least(0),
+       .upper = at_most(100000), .meaning = "bootstrap resamples over images for the sigma and the 95% interval"},
+      {.name = "seed", .member = member_of<&Params::seed>, .lower = at_least(0),
+       .meaning = "bootstrap seed, mixed with each transect id"},
+      {.name = "screen_k", .member = member_of<&Params::screen_k>, .lower = greater_than(0),
+       .meaning = "the residual screen drops images beyond screen_k robust sigmas"},
+      {.name = "screen_half_window", .member = member_of<&Params::screen_half_window>, .lower = at_least(1),
+       .upper = at_most(1000), .meaning = "half-window of the residual screen, in images"},
+      {.name = "screen_passes", .member = member_of<&Params::screen_passes>, .lower = at_least(0), .upper = at_most(10),
+       .meaning = "passes of the residual screen"},
+      {.name = "remove_seasonal", .member = member_of<&Params::remove_seasonal>,
+       .meaning = "annual and semi-annual sinusoids removed with the line before the spectrum"},
+      {.name = "curve_step", .member = member_of<&Params::curve_step>, .lower = greater_than(0), .upper = less_than(1),
+       .meaning = "tan β step of the energy curve"},
+  };
+  return list;
 }
 
-nlohmann::json SlopeStep::Params::to_json() const {
-  return {{"f_min_cpd", f_min_cpd},
-          {"f_max_cpd", f_max_cpd},
-          {"n_frequencies", n_frequencies},
-          {"band_half_width_cpd", band_half_width_cpd},
-          {"min_peak_to_median", min_peak_to_median},
-          {"min_images", min_images},
-          {"min_excursion_m", min_excursion_m},
-          {"bootstrap_count", bootstrap_count},
-          {"seed", seed},
-          {"screen_k", screen_k},
-          {"screen_half_window", screen_half_window},
-          {"screen_passes", screen_passes},
-          {"remove_seasonal", remove_seasonal},
-          {"curve_step", curve_step}};
+void SlopeStep::Params::validate(const std::string& pointer) const {
+  if (!(f_max_cpd > f_min_cpd)) throw ConfigError(pointer + "/f_max_cpd", "must exceed f_min_cpd");
 }
 
 std::unique_ptr<Step> SlopeStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("f_min_cpd", p.f_min_cpd);
-  r.number("f_max_cpd", p.f_max_cpd);
-  r.integer("n_frequencies", p.n_frequencies);
-  r.number("band_half_width_cpd", p.band_half_width_cpd);
-  r.number("min_peak_to_median", p.min_peak_to_median);
-  r.integer("min_images", p.min_images);
-  r.number("min_excursion_m", p.min_excursion_m);
-  r.integer("bootstrap_count", p.bootstrap_count);
-  r.integer("seed", p.seed);
-  r.number("screen_k", p.screen_k);
-  r.integer("screen_half_window", p.screen_half_window);
-  r.integer("screen_passes", p.screen_passes);
-  r.boolean("remove_seasonal", p.remove_seasonal);
-  r.number("curve_step", p.curve_step);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<SlopeStep>(p);
+  return std::make_unique<SlopeStep>(read_params(Params::fields(), params, pointer));
 }
 
-SlopeStep::SlopeStep(const Params& p) : TransectStep("slope", p.to_json()), p_(p) {
+SlopeStep::SlopeStep(const Params& p) : TransectStep("slope", params_json(Params::fields(), p)), p_(p) {
   spectral::SpectrumGrid grid;
   grid.f_min_cpd = p.f_min_cpd;
   grid.f_max_cpd = p.f_max_cpd;

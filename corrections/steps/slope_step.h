@@ -1,8 +1,7 @@
 // Step `slope`: the beach-face slope of each transect from the run's SlopePlan:
-// a listed slope (--slopes / --transect-params), a slope for every transect
-// (--slope), the spectral estimate (--slope auto; corrections/spectral/
-// slope_search.h), or the default with a flag. Points of a transect without a
-// slope are flagged no_slope and stay uncorrected.
+// a listed slope for the transect, one slope for every transect, the spectral
+// estimate (corrections/spectral/slope_search.h), or the default with a flag.
+// Points of a transect without a slope are flagged no_slope and stay uncorrected.
 //
 // With estimation, transects listed in per_transect keep their listed slope. The
 // estimate uses the transect's points that carry no rejecting flag yet and have a
@@ -15,6 +14,7 @@
 
 #include <memory>
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 #include "corrections/spectral/slope_search.h"
 
@@ -38,8 +38,8 @@ class SlopeStep final : public TransectStep {
     long long screen_passes = 2;
     bool remove_seasonal = true;
     double curve_step = 0.0025;
-    void validate(const std::string& pointer) const;
-    nlohmann::json to_json() const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
+    void validate(const std::string& pointer) const;  // rules between fields
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit SlopeStep(const Params& p);

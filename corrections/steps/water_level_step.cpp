@@ -1,26 +1,23 @@
 #include "corrections/steps/water_level_step.h"
 
-#include "corrections/core/param_reader.h"
-
 namespace strandline {
 
-void WaterLevelStep::Params::validate(const std::string& pointer) const {
-  if (!(max_gap_s > 0)) throw ConfigError(pointer + "/max_gap_s", "must be positive (seconds)");
-  if (!(sigma_m >= 0)) throw ConfigError(pointer + "/sigma_m", "must be zero or positive (metres)");
+const ParamList<WaterLevelStep::Params>& WaterLevelStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "max_gap_s", .member = member_of<&Params::max_gap_s>, .unit = "s", .lower = greater_than(0),
+       .meaning = "gauge samples around an image time at most this far apart (never extrapolated)"},
+      {.name = "sigma_m", .member = member_of<&Params::sigma_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "1σ of a gauge level at the beach when the source gives none (common practice: decimetres)"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> WaterLevelStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("max_gap_s", p.max_gap_s);
-  r.number("sigma_m", p.sigma_m);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<WaterLevelStep>(p);
+  return std::make_unique<WaterLevelStep>(read_params(Params::fields(), params, pointer));
 }
 
 WaterLevelStep::WaterLevelStep(const Params& p)
-    : TransectStep("water_level", {{"max_gap_s", p.max_gap_s}, {"sigma_m", p.sigma_m}}), p_(p) {}
+    : TransectStep("water_level", params_json(Params::fields(), p)), p_(p) {}
 
 void WaterLevelStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs,
                              StepLog& log) const {

@@ -3,6 +3,7 @@
 // cannot give one without extrapolating.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -12,7 +13,7 @@ class WaterLevelStep final : public TransectStep {
   struct Params {
     double max_gap_s = 3 * 3600.0;  // samples around an image time at most this far apart
     double sigma_m = 0.10;  // 1-sigma of a gauge level at the beach (common practice: decimetres)
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit WaterLevelStep(const Params& p);

@@ -2,7 +2,6 @@
 
 #include <cmath>
 
-#include "corrections/core/param_reader.h"
 #include "corrections/waves/linear_waves.h"
 
 namespace strandline {
@@ -13,21 +12,20 @@ namespace {
 constexpr double kBreakingHeightToDepth = 0.78;
 }  // namespace
 
-void WaveConditionsStep::Params::validate(const std::string& pointer) const {
-  if (!(max_gap_s > 0)) throw ConfigError(pointer + "/max_gap_s", "must be positive (seconds)");
+const ParamList<WaveConditionsStep::Params>& WaveConditionsStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "max_gap_s", .member = member_of<&Params::max_gap_s>, .unit = "s", .lower = greater_than(0),
+       .meaning = "wave records around an image time at most this far apart (else no_wave_data)"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> WaveConditionsStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("max_gap_s", p.max_gap_s);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<WaveConditionsStep>(p);
+  return std::make_unique<WaveConditionsStep>(read_params(Params::fields(), params, pointer));
 }
 
 WaveConditionsStep::WaveConditionsStep(const Params& p)
-    : TransectStep("wave_conditions", {{"max_gap_s", p.max_gap_s}}), p_(p) {}
+    : TransectStep("wave_conditions", params_json(Params::fields(), p)), p_(p) {}
 
 void WaveConditionsStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs,
                                  StepLog& log) const {

@@ -6,6 +6,7 @@
 // no sea state within `max_gap_s` gets the no_wave_data flag and empty columns.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -14,7 +15,7 @@ class WaveConditionsStep final : public TransectStep {
  public:
   struct Params {
     double max_gap_s = 3 * 3600.0;  // samples around an image time at most this far apart
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit WaveConditionsStep(const Params& p);

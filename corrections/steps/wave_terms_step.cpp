@@ -1,6 +1,5 @@
 #include "corrections/steps/wave_terms_step.h"
 
-#include "corrections/core/param_reader.h"
 #include "corrections/waves/stockdon.h"
 
 namespace strandline {
@@ -20,23 +19,21 @@ std::optional<WaveCorrection> wave_correction_from_name(std::string_view name) {
   return std::nullopt;
 }
 
-void WaveTermsStep::Params::validate(const std::string& pointer) const {
-  if (!(runup_sigma_m >= 0)) throw ConfigError(pointer + "/runup_sigma_m", "must be zero or positive (metres)");
-  if (!(setup_sigma_m >= 0)) throw ConfigError(pointer + "/setup_sigma_m", "must be zero or positive (metres)");
+const ParamList<WaveTermsStep::Params>& WaveTermsStep::Params::fields() {
+  static const ParamList<Params> list = {
+      {.name = "runup_sigma_m", .member = member_of<&Params::runup_sigma_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "1σ of R2% (Stockdon et al. 2006: rms error over ten experiments)"},
+      {.name = "setup_sigma_m", .member = member_of<&Params::setup_sigma_m>, .unit = "m", .lower = at_least(0),
+       .meaning = "1σ of the setup as the waterline term (the R2% rms: the waterline sits anywhere in the swash)"},
+  };
+  return list;
 }
 
 std::unique_ptr<Step> WaveTermsStep::make(const nlohmann::json& params, const std::string& pointer) {
-  Params p;
-  ParamReader r(params, pointer);
-  r.number("runup_sigma_m", p.runup_sigma_m);
-  r.number("setup_sigma_m", p.setup_sigma_m);
-  r.finish();
-  p.validate(pointer);
-  return std::make_unique<WaveTermsStep>(p);
+  return std::make_unique<WaveTermsStep>(read_params(Params::fields(), params, pointer));
 }
 
-WaveTermsStep::WaveTermsStep(const Params& p)
-    : TransectStep("wave_terms", {{"runup_sigma_m", p.runup_sigma_m}, {"setup_sigma_m", p.setup_sigma_m}}), p_(p) {}
+WaveTermsStep::WaveTermsStep(const Params& p) : TransectStep("wave_terms", params_json(Params::fields(), p)), p_(p) {}
 
 void WaveTermsStep::process(SiteTable& table, std::size_t transect, const RunInputs& inputs, StepLog& log) const {
   if (inputs.waves == nullptr) return;

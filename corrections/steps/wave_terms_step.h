@@ -8,6 +8,7 @@
 // column empty, never 0.
 #pragma once
 
+#include "corrections/core/param_fields.h"
 #include "corrections/core/step.h"
 
 namespace strandline {
@@ -21,7 +22,7 @@ class WaveTermsStep final : public TransectStep {
     // own, smaller scatter, but an image's waterline sits anywhere in the swash
     // around the setup, so the R2% rms is kept as a conservative value.
     double setup_sigma_m = 0.38;
-    void validate(const std::string& pointer) const;
+    static const ParamList<Params>& fields();  // each parameter: name, unit, range, meaning
   };
   static std::unique_ptr<Step> make(const nlohmann::json& params, const std::string& pointer);
   explicit WaveTermsStep(const Params& p);

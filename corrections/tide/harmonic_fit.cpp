@@ -155,7 +155,7 @@ HarmonicFitResult fit_harmonics(const std::vector<TimeS>& times_s, const std::ve
     char text[200];
     std::snprintf(text, sizeof text,
                   ": the samples do not determine all %d unknowns (condition number %.3g): the sampling or the "
-                  "gaps alias some constituents; give a shorter --constituents list",
+                  "gaps alias some constituents; shorten the constituent list",
                   p, condition);
     throw InputError(source + text);
   }

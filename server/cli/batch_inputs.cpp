@@ -3,21 +3,15 @@
 #include <fstream>
 
 #include "corrections/core/errors.h"
-#include "corrections/steps/slope_step.h"
-#include "corrections/steps/water_level_step.h"
+#include "corrections/core/time_utc.h"
 #include "corrections/tide/constituent_file.h"
-#include "corrections/tide/harmonic_tide_source.h"
-#include "corrections/water_level/blended_water_level_source.h"
 #include "server/io/file_digest.h"
 #include "server/io/slopes_json.h"
 #include "server/io/transect_params_csv.h"
 #include "server/io/water_level_csv.h"
+#include "server/io/wave_csv.h"
 
 namespace strandline::cli {
-
-void BatchInputs::record_file(const std::string& role, const std::string& path) {
-  input_files.push_back({{"role", role}, {"path", path}, {"sha256", sha256_hex_of_file(path)}});
-}
 
 namespace {
 
@@ -31,36 +25,122 @@ nlohmann::json read_config_file(const std::string& path) {
   }
 }
 
-SlopeValue slope_option(Args& args, const std::string& name, const std::string& sigma_name) {
+void record_file(app::RunMaterial& material, const std::string& role, const std::string& path) {
+  material.inputs.push_back({{"role", role}, {"path", path}, {"sha256", sha256_hex_of_file(path)}});
+}
+
+// A slope option's value, checked with the option's name in the message.
+double slope_option(Args& args, const std::string& name) {
   const std::string text = args.require(name);
-  SlopeValue v;
-  v.slope = *args.number(name);
-  if (auto why = slope_problem(v.slope)) throw UsageError("option --" + name + " \"" + text + "\": " + *why);
-  if (auto sigma = args.number(sigma_name)) {
-    if (*sigma < 0) throw UsageError("option --" + sigma_name + ": must not be negative");
-    v.slope_sigma = *sigma;
-  }
+  const double v = *args.number(name);
+  if (auto why = slope_problem(v)) throw UsageError("option --" + name + " \"" + text + "\": " + *why);
+  return v;
+}
+
+double sigma_option(Args& args, const std::string& name) {
+  const double v = *args.number(name);
+  if (v < 0) throw UsageError("option --" + name + ": must not be negative");
   return v;
 }
 
 // --slope-range MIN:MAX, the search range of the spectral estimate.
-void read_slope_range(Args& args, SlopePlan& plan, nlohmann::json& parameters) {
-  const auto text = args.get("slope-range");
-  if (!text) return;
-  if (!plan.estimate) throw UsageError("option --slope-range goes with --slope auto");
-  const auto colon = text->find(':');
-  if (colon == std::string::npos) throw UsageError("option --slope-range \"" + *text + "\": expected MIN:MAX, e.g. 0.01:0.2");
+nlohmann::json slope_range_option(const std::string& text) {
+  const auto colon = text.find(':');
+  if (colon == std::string::npos) throw UsageError("option --slope-range \"" + text + "\": expected MIN:MAX, e.g. 0.01:0.2");
+  double low = 0, high = 0;
   try {
-    plan.search_min = parse_number(text->substr(0, colon));
-    plan.search_max = parse_number(text->substr(colon + 1));
+    low = parse_number(text.substr(0, colon));
+    high = parse_number(text.substr(colon + 1));
   } catch (const FieldError& e) {
-    throw UsageError("option --slope-range \"" + *text + "\": " + e.what());
+    throw UsageError("option --slope-range \"" + text + "\": " + e.what());
   }
-  for (double v : {plan.search_min, plan.search_max})
-    if (auto why = slope_problem(v)) throw UsageError("option --slope-range \"" + *text + "\": " + *why);
-  if (!(plan.search_min < plan.search_max))
-    throw UsageError("option --slope-range \"" + *text + "\": MIN must be below MAX");
-  parameters["slope_range"] = {plan.search_min, plan.search_max};
+  for (double v : {low, high})
+    if (auto why = slope_problem(v)) throw UsageError("option --slope-range \"" + text + "\": " + *why);
+  if (!(low < high)) throw UsageError("option --slope-range \"" + text + "\": MIN must be below MAX");
+  return {low, high};
+}
+
+// Command-line options written into the run configuration: they override the
+// same keys of a --config file.
+void apply_options(Args& args, const BatchOptions& options, nlohmann::json& config) {
+  if (!config.is_object()) throw ConfigError("", "expected a JSON object");
+  if (args.get("reference-elevation")) config["reference_elevation_m"] = *args.number("reference-elevation");
+  nlohmann::json& slope = config["slope"];
+  if (slope.is_null()) slope = nlohmann::json::object();
+  const auto slope_text = args.get("slope");
+  const bool slope_auto = options.estimate_slopes || (slope_text && *slope_text == "auto");
+  if (slope_auto) slope["estimate"] = true;
+  if (auto range = args.get("slope-range")) {
+    if (!slope_auto) throw UsageError("option --slope-range goes with --slope auto");
+    slope["search_range"] = slope_range_option(*range);
+  }
+  if (slope_text && !slope_auto) {
+    slope["fixed"] = slope_option(args, "slope");
+    if (args.get("slope-sigma")) slope["fixed_sigma"] = sigma_option(args, "slope-sigma");
+  } else if (args.get("slope-sigma")) {
+    throw UsageError("option --slope-sigma needs --slope VALUE");
+  }
+  if (args.get("default-slope")) {
+    slope["default"] = slope_option(args, "default-slope");
+    if (args.get("default-slope-sigma")) slope["default_sigma"] = sigma_option(args, "default-slope-sigma");
+  } else if (args.get("default-slope-sigma")) {
+    throw UsageError("option --default-slope-sigma needs --default-slope VALUE");
+  }
+  if (slope.empty()) config.erase("slope");
+  if (options.trend_window) {
+    for (const char* name : {"trend-from", "trend-to"}) {
+      const auto text = args.get(name);
+      if (!text) continue;
+      try {
+        parse_time_utc(*text);
+      } catch (const FieldError& e) {
+        throw UsageError(std::string("--") + name + " \"" + *text + "\": " + e.what());
+      }
+      config["trend_window"][name == std::string("trend-from") ? "from" : "to"] = *text;
+    }
+  }
+  if (auto mode = args.get("wave-correction")) {
+    if (!args.get("waves")) throw UsageError("option --wave-correction needs --waves FILE");
+    if (*mode != "none" && *mode != "setup" && *mode != "runup")
+      throw UsageError("option --wave-correction \"" + *mode + "\": expected none, setup or runup");
+    config["wave_correction"] = *mode;
+  }
+}
+
+void read_water_level_inputs(Args& args, app::RunMaterial& material) {
+  if (auto path = args.get("water-levels")) {
+    const GaugeSeries gauge = read_water_levels_file(*path, kUnknown);
+    material.gauge_times_s = gauge.times();
+    material.gauge_levels_m = gauge.levels();
+    record_file(material, "water_levels", *path);
+  }
+  if (auto path = args.get("tide-constituents")) {  // alone, or where the gauge has no data
+    material.tide = tide::read_constituent_file(*path);
+    material.tide_label = *path;
+    record_file(material, "tide_constituents", *path);
+  }
+  if (material.gauge_times_s.empty() && !material.tide)
+    throw UsageError("no water levels: give --water-levels FILE and/or --tide-constituents FILE");
+}
+
+void read_slope_inputs(Args& args, bool fixed_slope, app::RunMaterial& material) {
+  if (auto path = args.get("slopes")) {
+    if (fixed_slope)
+      throw UsageError("give either --slope VALUE (one slope for every transect) or --slopes FILE, not both");
+    material.listed_slopes = is_slopes_json_path(*path) ? read_slopes_json_file(*path)
+                                                        : read_transect_params_file(*path, true).slopes;
+    record_file(material, "slopes", *path);
+  }
+  if (auto path = args.get("transect-params")) {
+    TransectParams tp = read_transect_params_file(*path, false);
+    for (auto& [id, v] : tp.slopes) {
+      if (material.listed_slopes.count(id))
+        throw InputError(*path, 0, "transect_id", id, "slope given both here and in --slopes");
+      material.listed_slopes[id] = v;
+    }
+    material.z_ref_by_transect = std::move(tp.z_ref_m);
+    record_file(material, "transect_params", *path);
+  }
 }
 
 }  // namespace
@@ -79,102 +159,54 @@ std::string batch_options_help() {
          "  --default-slope VALUE      slope for transects not listed (flagged default_slope)\n"
          "  --default-slope-sigma V    1-sigma of the default slope\n"
          "  --sensor-table FILE        sensor,class,sigma_m CSV replacing the built-in table\n"
-         "  --config FILE              pipeline configuration JSON (steps and parameters)\n";
+         "  --waves FILE               wave record CSV (time,hs_m,tp_s[,dir_deg][,depth_m]); Hs deshoaled to deep\n"
+         "                             water when depth_m is given\n"
+         "  --wave-correction MODE     none | setup | runup (Stockdon et al. 2006; default setup with --waves)\n"
+         "  --config FILE              run configuration JSON (processing choices, steps and parameters;\n"
+         "                             the options above override its keys)\n";
 }
 
 BatchInputs load_batch_inputs(Args& args, const BatchOptions& options) {
   BatchInputs b;
-  // Configuration first: a bad config should fail before any large file is read.
-  if (auto config = args.get("config")) {
-    b.pipeline = Pipeline::from_config(read_config_file(*config));
-    b.record_file("config", *config);
+  app::RunMaterial material;
+  // Configuration first: a bad configuration fails before any large file is read.
+  nlohmann::json config = nlohmann::json::object();
+  if (auto path = args.get("config")) {
+    config = read_config_file(*path);
+    record_file(material, "config", *path);
   }
+  apply_options(args, options, config);
+  app::RunConfig run_config = app::read_run_config(config, app::RunDefaults{});
+
   if (auto table = args.get("sensor-table")) {
-    b.sensors = SensorTable::from_csv_file(*table);
-    b.record_file("sensor_table", *table);
-  } else {
-    b.sensors = SensorTable::defaults();
+    material.sensors = SensorTable::from_csv_file(*table);
+    record_file(material, "sensor_table", *table);
   }
-  b.inputs.sensors = &b.sensors;
-  b.inputs.reference_elevation_m = args.number_or("reference-elevation", 0.0);
-  if (std::abs(b.inputs.reference_elevation_m) > 50)
-    throw UsageError("option --reference-elevation: implausible reference elevation (metres expected)");
-  b.parameters["reference_elevation_m"] = b.inputs.reference_elevation_m;
-
-  // ---- slopes
-  SlopePlan& plan = b.inputs.slopes;
-  const auto slope_text = args.get("slope");
-  const bool slope_auto = slope_text && *slope_text == "auto";
-  if (slope_auto) plan.estimate = true;
-  read_slope_range(args, plan, b.parameters);
-  if (slope_text && !slope_auto) {
-    plan.all = slope_option(args, "slope", "slope-sigma");
-    b.parameters["slope"] = plan.all->slope;
-  } else if (args.get("slope-sigma")) {
-    throw UsageError("option --slope-sigma needs --slope VALUE");
-  }
-  if (auto path = args.get("slopes")) {
-    if (plan.all) throw UsageError("give either --slope VALUE (one slope for every transect) or --slopes FILE, not both");
-    plan.per_transect = is_slopes_json_path(*path) ? read_slopes_json_file(*path)
-                                                   : read_transect_params_file(*path, true).slopes;
-    b.record_file("slopes", *path);
-  }
-  if (auto path = args.get("transect-params")) {
-    TransectParams tp = read_transect_params_file(*path, false);
-    for (auto& [id, v] : tp.slopes) {
-      if (plan.per_transect.count(id))
-        throw InputError(*path, 0, "transect_id", id, "slope given both here and in --slopes");
-      plan.per_transect[id] = v;
-    }
-    b.inputs.z_ref_by_transect = std::move(tp.z_ref_m);
-    b.record_file("transect_params", *path);
-  }
-  if (args.get("default-slope")) {
-    plan.default_value = slope_option(args, "default-slope", "default-slope-sigma");
-    b.parameters["default_slope"] = plan.default_value->slope;
-  } else if (args.get("default-slope-sigma")) {
-    throw UsageError("option --default-slope-sigma needs --default-slope VALUE");
+  read_slope_inputs(args, run_config.settings.fixed_slope.has_value(), material);
+  read_water_level_inputs(args, material);
+  if (auto path = args.get("waves")) {
+    material.waves = read_wave_csv_file(*path).samples();
+    record_file(material, "waves", *path);
   }
 
-  // ---- water levels
-  const auto* wl_step = dynamic_cast<const WaterLevelStep*>(b.pipeline.find("water_level"));
-  const double gauge_sigma = wl_step ? wl_step->params().sigma_m : WaterLevelStep::Params{}.sigma_m;
-  const GaugeSeries* gauge = nullptr;
-  if (auto path = args.get("water-levels")) {
-    b.water_level_sources.push_back(std::make_unique<GaugeSeries>(read_water_levels_file(*path, gauge_sigma)));
-    gauge = static_cast<const GaugeSeries*>(b.water_level_sources.back().get());
-    b.inputs.water_levels = gauge;
-    b.record_file("water_levels", *path);
-  }
-  if (auto path = args.get("tide-constituents")) {  // alone, or where the gauge has no data
-    b.water_level_sources.push_back(std::make_unique<tide::HarmonicTideSource>(tide::read_constituent_file(*path), *path));
-    if (gauge) b.water_level_sources.push_back(std::make_unique<BlendedWaterLevelSource>(*gauge, *b.water_level_sources.back()));
-    b.inputs.water_levels = b.water_level_sources.back().get();
-    b.record_file("tide_constituents", *path);
-  }
-  if (!b.inputs.water_levels)
-    throw UsageError("no water levels: give --water-levels FILE and/or --tide-constituents FILE");
-
-  // ---- observations (largest file last, after every cheap check)
+  // Observations last (the largest file), after every cheap check.
   b.observations_path = args.require("observations");
   ObservationReadOptions read_options;
   read_options.skip_invalid = options.skip_invalid;
-  read_options.sensors = &b.sensors;
+  read_options.sensors = &material.sensors;
+  read_options.unknown_sensor_hint = "add it with --sensor-table FILE";
   b.observations = read_observations_file(b.observations_path, read_options);
-  b.record_file("observations", b.observations_path);
+  record_file(material, "observations", b.observations_path);
+  b.run = std::make_unique<app::PreparedRun>(std::move(run_config), std::move(material));
   return b;
 }
 
 void check_slope_coverage(const BatchInputs& b) {
-  const SlopePlan& plan = b.inputs.slopes;
-  if (plan.all || plan.default_value || plan.estimate) return;
-  std::vector<std::string> missing;
-  for (const auto& t : b.observations.table.transects)
-    if (!planned_slope(plan, t.id)) missing.push_back(t.id);
+  const auto missing = b.run->transects_without_slope(b.observations.table, 11);
   if (missing.empty()) return;
   std::string list;
   for (std::size_t i = 0; i < missing.size() && i < 10; ++i) list += (i ? ", " : "") + missing[i];
-  if (missing.size() > 10) list += ", ... (" + std::to_string(missing.size()) + " in all)";
+  if (missing.size() > 10) list += ", ...";
   throw UsageError("no slope for transect(s) " + list + ": list them in --slopes/--transect-params, "
                    "or give --slope VALUE or --default-slope VALUE");
 }

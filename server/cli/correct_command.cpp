@@ -4,29 +4,22 @@
 // and the summary JSON with provenance. Every output is written atomically.
 #include <unistd.h>
 
-#include <chrono>
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
 
 #include "corrections/core/errors.h"
-#include "qc/summary.h"
 #include "server/cli/batch_inputs.h"
-#include "server/cli/cleaned_geodata.h"
+#include "server/app/exports.h"
 #include "server/cli/commands.h"
-#include "server/cli/wave_inputs.h"
 #include "server/io/atomic_file.h"
 #include "server/io/cleaned_rows.h"
+#include "server/store/store.h"
 #include "server/geo/result_writer.h"
 
 namespace strandline::cli {
 
 namespace {
-
-std::string now_utc() {
-  using namespace std::chrono;
-  return format_time_utc(std::floor(duration<double>(system_clock::now().time_since_epoch()).count()));
-}
 
 std::string default_rejected_path(const std::string& out) {
   std::filesystem::path p(out);
@@ -44,7 +37,7 @@ const char* kHelp =
 int run_correct(const CommandArgs& argv) {
   Args args(argv, {"skip-invalid", "help", "quiet"});
   if (args.flag("help")) {
-    std::cout << kHelp << batch_options_help() << wave_options_help()
+    std::cout << kHelp << batch_options_help()
               << "  --out FILE                 cleaned rows: CSV, or .gpkg/.geojson layers (needs --transects)\n"
                  "  --transects FILE           transect geometry (lines or points; see `strandline intersect --help`)\n"
                  "  --summary FILE             per-transect summary JSON with provenance\n"
@@ -54,18 +47,11 @@ int run_correct(const CommandArgs& argv) {
                  "  --quiet                    no progress on the terminal\n";
     return kExitOk;
   }
-  const std::string started = now_utc();
+  const std::string started = store::now_utc_text();
   const bool skip_invalid = args.flag("skip-invalid");
   const bool quiet = args.flag("quiet");
   const std::string out_path = args.require("out");
   const auto summary_path = args.get("summary");
-  SummaryOptions summary_options;
-  for (auto [name, field] : {std::pair{"trend-from", &summary_options.trend_from_s}, {"trend-to", &summary_options.trend_to_s}})
-    if (auto v = args.get(name)) try {
-        *field = parse_time_utc(*v);
-      } catch (const FieldError& e) {
-        throw UsageError(std::string("--") + name + " \"" + *v + "\": " + e.what());
-      }
   auto rejected_path = args.get("rejected");
   const auto transects_path = args.get("transects");
   const bool geodata_out = geo::geo_format_for(out_path).has_value();
@@ -73,51 +59,42 @@ int run_correct(const CommandArgs& argv) {
   if (rejected_path && !skip_invalid) throw UsageError("option --rejected goes with --skip-invalid");
   if (skip_invalid && !rejected_path) rejected_path = default_rejected_path(out_path);
 
-  BatchInputs batch = load_batch_inputs(args, {skip_invalid});
-  load_wave_inputs(args, batch);
+  BatchInputs batch = load_batch_inputs(args, {skip_invalid, false, true});
   args.finish();
   check_slope_coverage(batch);
+  const app::PreparedRun& run = *batch.run;
 
   SiteTable& table = batch.observations.table;
   std::optional<geo::TransectSet> transects;
-  if (transects_path) transects = attach_transect_geometry(*transects_path, table);
+  if (transects_path) transects = app::attach_transect_geometry(*transects_path, table);
   const bool show_progress = !quiet && ::isatty(STDERR_FILENO);
   const ProgressFn progress = [&](std::size_t done, std::size_t total) {
     if (show_progress && (done == total || done % 50 == 0))
       std::fprintf(stderr, "\rprocessing transects %zu/%zu", done, total);
   };
-  const RunRecord record = batch.pipeline.run(table, batch.inputs, progress);
+  const RunRecord record = run.run(table, progress);
   if (show_progress) std::fprintf(stderr, "\n");
 
+  const nlohmann::json summary = run.summary(table);
   CleanedRowStream rows(batch.observations_path, batch.observations, table);
   if (geodata_out)
-    write_cleaned_geodata(rows, *transects, site_summary(table, batch.inputs, summary_options), out_path,
-                          rejected_path ? *rejected_path : "");
+    app::write_cleaned_geodata(rows, *transects, summary, out_path, rejected_path ? *rejected_path : "");
   else
     write_cleaned_csv(rows, out_path, rejected_path ? *rejected_path : "");
 
-  std::size_t accepted = 0;
-  for (std::size_t i = 0; i < table.size(); ++i) accepted += table.accepted(i) ? 1 : 0;
+  nlohmann::json provenance =
+      run.provenance(record, table, {batch.observations.data_rows, batch.observations.rejected.size()}, started,
+                     store::now_utc_text());
   if (summary_path) {
-    nlohmann::json summary = site_summary(table, batch.inputs, summary_options);
-    summary["provenance"] = {{"version", STRANDLINE_VERSION},
-                             {"command", "correct"},
-                             {"parameters", batch.parameters},
-                             {"configuration", batch.pipeline.config()},
-                             {"inputs", batch.input_files},
-                             {"water_levels", batch.inputs.water_levels->describe()},
-                             {"steps", record.to_json()},
-                             {"rows", {{"input", batch.observations.data_rows},
-                                       {"rejected", batch.observations.rejected.size()},
-                                       {"cleaned", table.size()},
-                                       {"accepted", accepted}}},
-                             {"started", started},
-                             {"finished", now_utc()}};
-    write_file_atomically(*summary_path, summary.dump(2) + "\n");
+    nlohmann::json document = summary;
+    document["provenance"] = provenance;
+    document["provenance"]["command"] = "correct";
+    write_file_atomically(*summary_path, document.dump(2) + "\n");
   }
   if (!quiet) {
+    const auto& counts = provenance["rows"];
     std::cerr << "corrected " << table.size() << " rows on " << table.transects.size() << " transects ("
-              << accepted << " accepted";
+              << counts["accepted"].get<std::size_t>() << " accepted";
     if (skip_invalid) std::cerr << ", " << batch.observations.rejected.size() << " rejected rows in " << *rejected_path;
     std::cerr << ")\ncleaned rows: " << out_path << "\n";
     if (summary_path) std::cerr << "summary: " << *summary_path << "\n";

@@ -10,7 +10,7 @@
 #include "corrections/core/errors.h"
 #include "server/cli/args.h"
 #include "server/cli/commands.h"
-#include "server/http/demo_site.h"
+#include "server/app/demo_site.h"
 #include "server/http/service.h"
 #include "server/store/api_keys.h"
 
@@ -80,7 +80,7 @@ int run_serve(const CommandArgs& argv) {
   http::Service service(*store, options);
   if (demo) {
     std::cerr << "loading the demo site into " << db_path << " ...\n";
-    const auto run = http::load_demo_site(*store, service.runs());
+    const auto run = app::load_demo_site(*store, service.runs());
     std::cerr << "demo run " << run << ": " << store->run(run)->state << "\n";
     const auto key = store::generate_api_key("demo-writer", "write");
     store->add_key(key.record);

@@ -6,16 +6,15 @@
 // reads them back.
 #include <unistd.h>
 
-#include <chrono>
 #include <cstdio>
 #include <iostream>
 
 #include "corrections/core/errors.h"
 #include "server/cli/batch_inputs.h"
 #include "server/cli/commands.h"
-#include "server/cli/wave_inputs.h"
 #include "server/io/atomic_file.h"
 #include "server/io/slopes_json.h"
+#include "server/store/store.h"
 
 namespace strandline::cli {
 
@@ -34,29 +33,22 @@ const char* kHelp =
 int run_slope(const CommandArgs& argv) {
   Args args(argv, {"skip-invalid", "help", "quiet"});
   if (args.flag("help")) {
-    std::cout << kHelp << batch_options_help() << wave_options_help()
+    std::cout << kHelp << batch_options_help()
               << "  --out FILE                 slopes JSON (see the formats reference, \"Slopes JSON\")\n"
                  "  --skip-invalid             skip bad observation rows (default: stop at the first)\n"
                  "  --quiet                    no progress on the terminal\n";
     return kExitOk;
   }
+  const std::string started = store::now_utc_text();
   const bool quiet = args.flag("quiet");
+  const bool skip_invalid = args.flag("skip-invalid");
   const std::string out_path = args.require("out");
   if (auto slope = args.get("slope"); slope && *slope != "auto")
     throw UsageError("strandline slope estimates slopes: --slope VALUE belongs to `strandline correct`");
   // Estimation is what this command does: --slope auto is implied.
-  CommandArgs with_auto = argv;
-  if (!args.get("slope")) {
-    with_auto.push_back("--slope");
-    with_auto.push_back("auto");
-  }
-  Args batch_args(with_auto, {"skip-invalid", "help", "quiet"});
-  batch_args.flag("skip-invalid");
-  batch_args.flag("quiet");
-  batch_args.get("out");
-  BatchInputs batch = load_batch_inputs(batch_args, {args.flag("skip-invalid")});
-  load_wave_inputs(batch_args, batch);
-  batch_args.finish();
+  BatchInputs batch = load_batch_inputs(args, {skip_invalid, true, false});
+  args.finish();
+  const app::PreparedRun& run = *batch.run;
 
   SiteTable& table = batch.observations.table;
   const bool show_progress = !quiet && ::isatty(STDERR_FILENO);
@@ -64,19 +56,13 @@ int run_slope(const CommandArgs& argv) {
     if (show_progress && (done == total || done % 50 == 0))
       std::fprintf(stderr, "\restimating slopes %zu/%zu", done, total);
   };
-  const RunRecord record = batch.pipeline.run(table, batch.inputs, progress);
+  const RunRecord record = run.run(table, progress);
   if (show_progress) std::fprintf(stderr, "\n");
 
-  nlohmann::json doc = slopes_json(table, batch.inputs.slopes);
-  nlohmann::json slope_step_record = nullptr;
-  for (const auto& s : record.steps)
-    if (s.step == "slope") slope_step_record = {{"parameters", s.parameters}, {"result", s.log.to_json()}, {"seconds", s.seconds}};
-  doc["provenance"] = {{"version", STRANDLINE_VERSION},
-                       {"command", "slope"},
-                       {"parameters", batch.parameters},
-                       {"inputs", batch.input_files},
-                       {"water_levels", batch.inputs.water_levels->describe()},
-                       {"slope_step", slope_step_record}};
+  nlohmann::json doc = slopes_json(table, run.inputs().slopes);
+  doc["provenance"] = run.provenance(record, table, {batch.observations.data_rows, batch.observations.rejected.size()},
+                                     started, store::now_utc_text());
+  doc["provenance"]["command"] = "slope";
   write_file_atomically(out_path, doc.dump(2) + "\n");
   if (!quiet) {
     std::size_t estimated = 0, not_identifiable = 0;

@@ -13,7 +13,7 @@ namespace strandline::geo {
 SeawardSide seaward_side_from_name(const std::string& name) {
   if (name == "left") return SeawardSide::left;
   if (name == "right") return SeawardSide::right;
-  throw UsageError("--seaward \"" + name + "\": expected left or right");
+  throw ArgumentError("seaward side \"" + name + "\": expected left or right");
 }
 
 namespace {
@@ -40,12 +40,12 @@ OGRLineString segment_of(const TransectGeometry& g) {
 }  // namespace
 
 BaselineTransects transects_from_baseline(const std::string& path, const BaselineOptions& options) {
-  if (!(options.spacing_m > 0)) throw UsageError("--spacing must be positive");
-  if (!(options.length_m > 0)) throw UsageError("--length must be positive");
+  if (!(options.spacing_m > 0)) throw ArgumentError("transect spacing must be positive (metres)");
+  if (!(options.length_m > 0)) throw ArgumentError("transect length must be positive (metres)");
   if (!(options.landward_m >= 0) || options.landward_m >= options.length_m)
-    throw UsageError("--landward must be at least 0 and less than --length");
+    throw ArgumentError("landward part of a transect must be at least 0 and less than its length");
   const double window_m = known(options.smoothing_m) ? options.smoothing_m : options.spacing_m;
-  if (!(window_m > 0)) throw UsageError("--smoothing must be positive");
+  if (!(window_m > 0)) throw ArgumentError("baseline smoothing window must be positive (metres)");
 
   DatasetPtr ds = open_vector(path, "baseline file");
   OGRLayer& layer = pick_layer(*ds, path, options.layer);

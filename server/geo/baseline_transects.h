@@ -13,7 +13,7 @@
 namespace strandline::geo {
 
 enum class SeawardSide { left, right };  // sea on the left/right walking along the line
-SeawardSide seaward_side_from_name(const std::string& name);  // throws UsageError
+SeawardSide seaward_side_from_name(const std::string& name);  // throws ArgumentError
 
 struct BaselineOptions {
   std::optional<std::string> layer;
@@ -32,7 +32,7 @@ struct BaselineTransects {
 };
 
 // Throws InputError naming layer and FID for empty, non-line or
-// self-intersecting baselines, a missing CRS; UsageError for bad options.
+// self-intersecting baselines, a missing CRS; ArgumentError for bad options.
 BaselineTransects transects_from_baseline(const std::string& path, const BaselineOptions& options);
 
 }  // namespace strandline::geo

@@ -32,7 +32,7 @@ PolylineWriteReport write_position_polylines(const std::string& path, const Tran
                                              const std::vector<ImagePosition>& positions, double tick_half_length_m,
                                              const std::string& layer_name) {
   const auto format = geo_format_for(path);
-  if (!format) throw UsageError(path + ": unknown geodata format (use .gpkg or .geojson)");
+  if (!format) throw ArgumentError(path + ": unknown geodata format (use .gpkg or .geojson)");
   std::unordered_map<std::string, std::size_t> order;
   for (std::size_t i = 0; i < transects.transects.size(); ++i) order.emplace(transects.transects[i].id, i);
 

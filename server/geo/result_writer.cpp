@@ -155,7 +155,7 @@ void write_transects(LayerSink& sink, const std::string& path, const TransectSet
 
 GeoWriteReport write_geo_layers(const std::string& path, const TransectSet& transects, const GeoLayers& layers) {
   const auto format = geo_format_for(path);
-  if (!format) throw UsageError(path + ": unknown geodata format (use .gpkg or .geojson)");
+  if (!format) throw ArgumentError(path + ": unknown geodata format (use .gpkg or .geojson)");
   GeoWriteReport report;
   if (*format == GeoFormat::geopackage) {
     LayerSink sink(*format, path, transects.crs, report.files);

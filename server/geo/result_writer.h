@@ -48,7 +48,7 @@ struct GeoWriteReport {
   std::size_t transects = 0;
 };
 
-// Replaces existing output files. Throws UsageError for an unknown extension,
+// Replaces existing output files. Throws ArgumentError for an unknown extension,
 // InputError for a table without the id/chainage columns or a write failure.
 GeoWriteReport write_geo_layers(const std::string& path, const TransectSet& transects, const GeoLayers& layers);
 

@@ -14,7 +14,7 @@ CrossingRule crossing_rule_from_name(const std::string& name) {
   if (name == "most-seaward") return CrossingRule::most_seaward;
   if (name == "most-landward") return CrossingRule::most_landward;
   if (name == "flag-only") return CrossingRule::flag_only;
-  throw UsageError("--crossing \"" + name + "\": expected most-seaward, most-landward or flag-only");
+  throw ArgumentError("crossing rule \"" + name + "\": expected most-seaward, most-landward or flag-only");
 }
 
 namespace {

@@ -19,7 +19,7 @@ enum class CrossingRule {
   most_landward,  // keep the smallest
   flag_only,      // keep none: the pair is left out and reported
 };
-// "most-seaward", "most-landward", "flag-only"; throws UsageError otherwise.
+// "most-seaward", "most-landward", "flag-only"; throws ArgumentError otherwise.
 CrossingRule crossing_rule_from_name(const std::string& name);
 
 struct ShorelineFields {

@@ -17,10 +17,12 @@
 #include "corrections/core/sensor_table.h"
 #include "corrections/core/time_utc.h"
 #include "server/geo/crs.h"
+#include "server/app/exports.h"
 #include "server/geo/plain_table_io.h"
 #include "server/geo/result_writer.h"
 #include "server/geo/shoreline_intersect.h"
 #include "server/http/service_internal.h"
+#include "server/app/uploads.h"
 #include "server/http/upload_rows.h"
 #include "server/store/api_keys.h"
 
@@ -81,26 +83,6 @@ geo::TransectSet site_transects(Context& c, const store::Site& site) {
   return set;
 }
 
-// Concatenates per-transect tables column by column (union of the columns in
-// first-seen order; a column a table lacks is null in its rows).
-void append_table(geo::PlainTable& all, const geo::PlainTable& part) {
-  std::vector<std::size_t> where(part.columns.size());
-  for (std::size_t c = 0; c < part.columns.size(); ++c) {
-    auto at = all.column(part.columns[c]);
-    if (!at) {
-      all.columns.push_back(part.columns[c]);
-      for (auto& row : all.rows) row.emplace_back();
-      at = all.columns.size() - 1;
-    }
-    where[c] = *at;
-  }
-  for (const auto& row : part.rows) {
-    std::vector<geo::Cell> cells(all.columns.size());
-    for (std::size_t c = 0; c < row.size(); ++c) cells[where[c]] = row[c];
-    all.rows.push_back(std::move(cells));
-  }
-}
-
 struct ExportRequest {
   geo::GeoFormat format = geo::GeoFormat::geopackage;
   bool transect_layer = false;  // GeoJSON: the transects instead of the points
@@ -157,12 +139,10 @@ void get_export(Context& c) {
   nlohmann::json summary = {{"transects", nlohmann::json::array()}};
   std::int64_t newest_run = 0;
   for (const auto& t : transects.transects) {
-    const auto result = c.service.store.result(site.id, t.id, request.run_id, store::Store::SeriesText::csv);
+    const auto result = c.service.store.result(site.id, t.id, request.run_id, {true, true});
     if (!result) continue;
     newest_run = std::max(newest_run, result->run_id);
-    const std::string csv_path = scratch.file("rows.csv");
-    write_text(csv_path, result->rows_csv);
-    append_table(points, geo::read_csv_plain_table(csv_path));
+    app::append_result_points(points, result->rows);
     nlohmann::json s = result->summary;
     if (s.is_object()) {
       s["transect_id"] = t.id;
@@ -294,25 +274,25 @@ void post_shorelines(Context& c) {
     throw Problem(422, problem_type::invalid_body, "Invalid shorelines", message, extra);
   }
 
-  // From here on the rows take the observation upload path: the same parser
-  // and validation, then one store transaction.
-  std::set<std::string> ids;
-  for (const auto& t : transects.transects) ids.insert(t.id);
-  auto parsed = parse_observation_upload(observation_csv(crossings.rows), BodyFormat::csv, ids, SensorTable::defaults());
-  if (!parsed.invalid.empty() && mode == "reject")
-    throw Problem(422, problem_type::invalid_rows, "Invalid rows",
-                  std::to_string(parsed.invalid.size()) + " of " + std::to_string(parsed.received) +
-                      " crossing rows are invalid; nothing was stored (add ?on_invalid=skip to store the valid rows)",
-                  {{"rows", crossing_issues(parsed.invalid, crossings.rows)}});
-  store::UploadMeta meta;
-  meta.content_type = "application/geo+json";
-  meta.sha256 = store::sha256_hex(c.req.body);
-  meta.uploaded_by = c.key_name;
-  meta.received = parsed.received;
-  meta.rejected = parsed.invalid;
+  // From here on the rows take the observation upload path: the same rules,
+  // then one store transaction.
+  app::UploadRequest request;
+  const std::string body = observation_csv(crossings.rows);
+  request.body = body;
+  request.format = BodyFormat::csv;
+  request.on_invalid = mode == "skip" ? app::OnInvalid::skip : app::OnInvalid::reject;
+  request.meta.content_type = "application/geo+json";
+  request.meta.sha256 = store::sha256_hex(c.req.body);
+  request.meta.uploaded_by = c.key_name;
+  static const SensorTable sensors = SensorTable::defaults();
   store::UploadResult r;
   try {
-    r = c.service.store.add_observations(site.id, meta, parsed.rows);
+    r = app::upload_observations(c.service.store, site.id, std::move(request), sensors).result;
+  } catch (const app::InvalidRows& e) {
+    throw Problem(422, problem_type::invalid_rows, "Invalid rows",
+                  std::to_string(e.rows.size()) + " of " + std::to_string(e.received) +
+                      " crossing rows are invalid; nothing was stored (add ?on_invalid=skip to store the valid rows)",
+                  {{"rows", crossing_issues(e.rows, crossings.rows)}});
   } catch (const store::ConflictError& e) {
     throw Problem(409, problem_type::conflict, "Conflict",
                   "crossings contradict stored observations (same transect and image id, other values); nothing was stored",

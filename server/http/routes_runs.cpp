@@ -1,8 +1,9 @@
 // Runs and their results: series, summary, changes.
 #include "corrections/core/errors.h"
 #include "qc/cautions.h"
-#include "server/http/gzip_document.h"
-#include "server/http/run_executor.h"
+#include "server/io/cleaned_rows.h"
+#include "server/io/gzip_document.h"
+#include "server/app/run_executor.h"
 #include "server/http/service_internal.h"
 #include "server/store/api_keys.h"
 
@@ -53,7 +54,7 @@ void start_run(Context& c) {
   if (!c.req.body.empty()) options = c.json_body();
   if (!options.is_object()) throw Problem(422, problem_type::invalid_config, "Invalid run options",
                                           "expected a JSON object (the batch --config shape)", {{"pointer", ""}});
-  pipeline_for(site, options);  // ConfigError -> 422 naming the pointer, before anything is queued
+  app::run_config_for(site, options);  // ConfigError -> 422 naming the pointer, before anything is queued
   const std::string scope = c.query("transects").value_or("changed");
   if (scope != "changed" && scope != "all")
     throw Problem(400, problem_type::bad_request, "Bad query parameter", "transects must be \"changed\" or \"all\"",
@@ -105,12 +106,9 @@ void get_series(Context& c) {
                   {{"parameter", "format"}});
   const std::string run_text = c.query("run").value_or("latest");
   const std::int64_t run_id = run_text == "latest" ? 0 : positive_id(run_text, "run");
-  using Text = store::Store::SeriesText;
-  using Encoding = store::Store::Encoding;
   const bool gzip = accepts_gzip(c.req.get_header_value("Accept-Encoding"));
-  auto result = c.service.store.result(site.id, transect, run_id, format == "csv" ? Text::csv : Text::json,
-                                       gzip ? Encoding::gzip : Encoding::identity, false);
-  if (!result) {
+  const auto head = c.service.store.result(site.id, transect, run_id, {false, false});
+  if (!head) {
     bool defined = false;
     for (const auto& t : c.service.store.transects(site.id)) defined = defined || t.id == transect;
     const std::string what = !defined ? "transect \"" + transect + "\" not found in site \"" + site.id + "\""
@@ -118,12 +116,24 @@ void get_series(Context& c) {
                                       : "transect \"" + transect + "\" has no finished run yet";
     throw Problem(404, problem_type::not_found, "Not found", what);
   }
-  c.res.set_header("X-Run-Id", std::to_string(result->run_id));
-  std::string& identity = format == "csv" ? result->rows_csv : result->rows_json;
-  std::string& member = format == "csv" ? result->rows_csv_gzip : result->rows_json_gzip;
-  const bool send_member = !member.empty();
-  reply_with_etag(c, result->sha256 + "-" + format, std::move(send_member ? member : identity),
-                  format == "csv" ? "text/csv" : "application/json", send_member);
+  c.res.set_header("X-Run-Id", std::to_string(head->run_id));
+  const std::string etag = head->sha256 + "-" + format;
+  if (not_modified(c, etag)) return;
+  // A run's result never changes: the rendered reply is cached by run, transect and form.
+  const std::string key = std::to_string(head->run_id) + "\n" + site.id + "\n" + transect + "\n" + format +
+                          (gzip ? "\ngzip" : "");
+  auto document = c.service.series_cache.get_or_render(key, [&] {
+    auto result = c.service.store.result(site.id, transect, head->run_id, {true, false});
+    if (!result) throw Problem(404, problem_type::not_found, "Not found", "the result was removed");
+    std::string text = format == "csv" ? cleaned_rows_csv(result->rows)
+                                       : nlohmann::json({{"site", site.id},
+                                                         {"transect_id", transect},
+                                                         {"run_id", result->run_id},
+                                                         {"rows", cleaned_rows_json(result->rows)}})
+                                             .dump();
+    return gzip ? gzip_compress(text) : text;
+  });
+  reply_document(c, etag, std::move(document), format == "csv" ? "text/csv" : "application/json", gzip);
 }
 
 void get_summary(Context& c) {
@@ -140,7 +150,10 @@ void get_summary(Context& c) {
                          {"transects", transects},
                          {"cautions", standard_cautions()}};
   std::string text = body.dump();
-  reply_with_etag(c, store::sha256_hex(text).substr(0, 32), std::move(text), "application/json");
+  // The tag is taken before the text is handed over (an argument moved from
+  // in the same call would leave the hash of whatever remained).
+  const std::string etag = store::sha256_hex(text).substr(0, 32);
+  reply_with_etag(c, etag, std::move(text), "application/json");
 }
 
 // The cursor is the last change sequence number seen: opaque to clients.

@@ -8,8 +8,9 @@
 
 #include "corrections/core/errors.h"
 #include "server/geo/crs.h"
+#include "server/io/id_rules.h"
 #include "server/geo/transect_reader.h"
-#include "server/http/run_executor.h"
+#include "server/app/run_executor.h"
 #include "server/http/service_internal.h"
 
 namespace strandline::http {
@@ -74,7 +75,7 @@ store::Site site_from_json(const nlohmann::json& body) {
   if (body.contains("processing_defaults")) {
     s.processing_defaults = body["processing_defaults"];
     try {
-      Pipeline::from_config(s.processing_defaults);
+      app::run_config_for(s, s.processing_defaults);
     } catch (const ConfigError& e) {
       throw Problem(422, problem_type::invalid_config, "Invalid processing defaults",
                     "/processing_defaults" + std::string(e.what()), {{"pointer", "/processing_defaults" + e.pointer}});
@@ -152,7 +153,10 @@ void put_transects(Context& c) {
       !body["features"].is_array())
     throw schema_problem("/type", "expected a GeoJSON FeatureCollection");
   const auto transects = read_transect_collection(c.req.body, site);
-  for (const auto& t : transects) check_id(t.id, "transect id");
+  for (std::size_t i = 0; i < transects.size(); ++i)
+    if (auto why = id_problem(transects[i].id, "transect id", true))
+      throw Problem(422, problem_type::invalid_body, "Invalid transect id", *why,
+                    {{"pointer", "/features/" + std::to_string(i) + "/properties/transect_id"}});
   c.service.store.replace_transects(site.id, transects);
   nlohmann::json features = nlohmann::json::array();
   for (const auto& t : transects) features.push_back(t.feature);

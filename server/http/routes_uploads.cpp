@@ -1,6 +1,6 @@
 // Uploads of observations and site inputs, their listing and retraction.
 #include "corrections/core/errors.h"
-#include "corrections/tide/constituent_file.h"
+#include "server/app/uploads.h"
 #include "server/http/service_internal.h"
 #include "server/http/upload_rows.h"
 #include "server/store/api_keys.h"
@@ -9,47 +9,35 @@ namespace strandline::http {
 
 namespace {
 
-enum class OnInvalid { reject, skip };
-
-OnInvalid on_invalid(const Context& c) {
+app::OnInvalid on_invalid(const Context& c) {
   const auto v = c.query("on_invalid").value_or("reject");
-  if (v == "reject") return OnInvalid::reject;
-  if (v == "skip") return OnInvalid::skip;
+  if (v == "reject") return app::OnInvalid::reject;
+  if (v == "skip") return app::OnInvalid::skip;
   throw Problem(400, problem_type::bad_request, "Bad query parameter", "on_invalid must be \"reject\" or \"skip\"",
                 {{"parameter", "on_invalid"}});
 }
 
-std::set<std::string> transect_ids(Context& c, const std::string& site) {
-  std::set<std::string> ids;
-  for (const auto& t : c.service.store.transects(site)) ids.insert(t.id);
-  return ids;
-}
-
-nlohmann::json issues_json(const std::vector<store::RowIssue>& rows, BodyFormat format, const std::string& key) {
-  nlohmann::json out = nlohmann::json::array();
-  for (const auto& r : rows) out.push_back(row_issue_json(r, format, key));
-  return out;
-}
-
-// Shared flow: parse → (422 unless skipping) → one store transaction → report.
-template <class Row, class Parse, class Store>
-void upload(Context& c, const std::string& kind, const std::string& array_key, Parse parse, Store store_rows) {
+// Shared flow: request → app::upload_* (rules and store) → 201 report, or the problem.
+template <class Upload>
+void upload(Context& c, const std::string& kind, const std::string& array_key, Upload run_upload) {
   const auto site = c.site_or_404(c.path_param(0));
-  const auto format = body_format_of(c.req.get_header_value("Content-Type"));
-  const auto mode = on_invalid(c);
-  ParsedUpload<Row> parsed = parse(site, format);
-  if (!parsed.invalid.empty() && mode == OnInvalid::reject)
+  app::UploadRequest request;
+  request.body = c.req.body;
+  request.format = body_format_of(c.req.get_header_value("Content-Type"));
+  request.on_invalid = on_invalid(c);
+  request.meta.content_type = request.format == BodyFormat::csv ? "text/csv" : "application/json";
+  request.meta.sha256 = store::sha256_hex(c.req.body);
+  request.meta.uploaded_by = c.key_name;
+  const auto format = request.format;
+  app::UploadReport report;
+  try {
+    report = refusing_bad_bodies([&] { return run_upload(site, std::move(request)); });
+  } catch (const app::InvalidRows& e) {
     throw Problem(422, problem_type::invalid_rows, "Invalid rows",
-                  std::to_string(parsed.invalid.size()) + " of " + std::to_string(parsed.received) +
-                      " rows are invalid; nothing was stored (add ?on_invalid=skip to store the valid rows)",
-                  {{"rows", issues_json(parsed.invalid, format, array_key)}});
-  store::UploadMeta meta;
-  meta.content_type = format == BodyFormat::csv ? "text/csv" : "application/json";
-  meta.sha256 = store::sha256_hex(c.req.body);
-  meta.uploaded_by = c.key_name;
-  meta.received = parsed.received;
-  meta.rejected = parsed.invalid;
-  const store::UploadResult r = store_rows(site, meta, parsed.rows);
+                  std::string(e.what()) + " (add ?on_invalid=skip to store the valid rows)",
+                  {{"rows", row_issues_json(e.rows, format, array_key)}});
+  }
+  const store::UploadResult& r = report.result;
   c.service.metrics.count_rows(kind, r.inserted);
   c.res.set_header("Location", "/v1/sites/" + site.id + "/uploads/" + std::to_string(r.upload_id));
   c.reply(201, {{"upload_id", r.upload_id},
@@ -57,64 +45,49 @@ void upload(Context& c, const std::string& kind, const std::string& array_key, P
                 {"received", r.received},
                 {"inserted", r.inserted},
                 {"duplicates", r.duplicates},
-                {"duplicate_rows", issues_json(r.duplicate_rows, format, array_key)},
+                {"duplicate_rows", row_issues_json(r.duplicate_rows, format, array_key)},
                 {"rejected", r.rejected.size()},
-                {"rejected_rows", issues_json(r.rejected, format, array_key)}});
+                {"rejected_rows", row_issues_json(r.rejected, format, array_key)},
+                {"ignored_columns", report.ignored_columns}});
 }
 
 void post_observations(Context& c) {
-  const SensorTable sensors = SensorTable::defaults();
-  upload<store::ObservationRow>(
-      c, "observations", "observations",
-      [&](const store::Site& site, BodyFormat f) {
-        return parse_observation_upload(c.req.body, f, transect_ids(c, site.id), sensors);
-      },
-      [&](const store::Site& site, const store::UploadMeta& m, const auto& rows) {
-        return c.service.store.add_observations(site.id, m, rows);
-      });
+  static const SensorTable sensors = SensorTable::defaults();
+  upload(c, "observations", "observations", [&](const store::Site& site, app::UploadRequest request) {
+    return app::upload_observations(c.service.store, site.id, std::move(request), sensors);
+  });
 }
 
 void post_water_levels(Context& c) {
-  upload<store::WaterLevelRow>(
-      c, "water_levels", "water_levels",
-      [&](const store::Site&, BodyFormat f) { return parse_water_level_upload(c.req.body, f); },
-      [&](const store::Site& site, const store::UploadMeta& m, const auto& rows) {
-        return c.service.store.add_water_levels(site.id, m, rows);
-      });
+  upload(c, "water_levels", "water_levels", [&](const store::Site& site, app::UploadRequest request) {
+    return app::upload_water_levels(c.service.store, site.id, std::move(request));
+  });
 }
 
 void post_waves(Context& c) {
-  upload<store::WaveRow>(
-      c, "waves", "waves", [&](const store::Site&, BodyFormat f) { return parse_wave_upload(c.req.body, f); },
-      [&](const store::Site& site, const store::UploadMeta& m, const auto& rows) {
-        return c.service.store.add_waves(site.id, m, rows);
-      });
+  upload(c, "waves", "waves", [&](const store::Site& site, app::UploadRequest request) {
+    return app::upload_waves(c.service.store, site.id, std::move(request));
+  });
 }
 
 void post_slopes(Context& c) {
-  upload<store::SlopeRow>(
-      c, "slopes", "slopes",
-      [&](const store::Site& site, BodyFormat f) { return parse_slope_upload(c.req.body, f, transect_ids(c, site.id)); },
-      [&](const store::Site& site, const store::UploadMeta& m, const auto& rows) {
-        return c.service.store.add_slopes(site.id, m, rows);
-      });
+  upload(c, "slopes", "slopes", [&](const store::Site& site, app::UploadRequest request) {
+    return app::upload_slopes(c.service.store, site.id, std::move(request));
+  });
 }
 
 // A whole constituent file (JSON): checked by the tide reader, idempotent by content hash.
 void post_tide_constituents(Context& c) {
   const auto site = c.site_or_404(c.path_param(0));
-  const auto body = c.json_body();
-  try {
-    tide::parse_constituent_json(body, "body");
-  } catch (const InputError& e) {
-    throw Problem(422, problem_type::invalid_body, "Invalid tide constituents", e.what());
-  }
+  if (body_format_of(c.req.get_header_value("Content-Type")) != BodyFormat::json)
+    throw Problem(415, problem_type::unsupported_media_type, "Unsupported media type",
+                  "a constituent file is application/json");
   store::UploadMeta meta;
   meta.content_type = "application/json";
   meta.sha256 = store::sha256_hex(c.req.body);
   meta.uploaded_by = c.key_name;
-  meta.received = 1;
-  const auto r = c.service.store.add_document(site.id, "tide_constituents", meta, c.req.body);
+  const auto r = refusing_bad_bodies(
+      [&] { return app::upload_tide_constituents(c.service.store, site.id, c.req.body, meta); });
   c.service.metrics.count_rows("tide_constituents", r.inserted);
   c.res.set_header("Location", "/v1/sites/" + site.id + "/uploads/" + std::to_string(r.upload_id));
   c.reply(r.replay ? 200 : 201, {{"upload_id", r.upload_id},

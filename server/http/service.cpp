@@ -98,33 +98,43 @@ store::Site Context::site_or_404(const std::string& site_id) const {
   return *site;
 }
 
-void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type,
-                     bool gzip_member) {
-  const std::string identity = "\"" + etag + "\"", member = "\"" + etag + ".gz\"";
-  c.res.set_header("ETag", gzip_member ? member : identity);
+bool not_modified(Context& c, const std::string& etag) {
   c.res.set_header("Vary", "Accept-Encoding");
   const std::string match = c.req.get_header_value("If-None-Match");
-  if (!match.empty() &&
-      (match == "*" || match.find(identity) != std::string::npos || match.find(member) != std::string::npos)) {
-    c.res.status = 304;
-    return;
-  }
-  if (!gzip_member) return c.reply_text(200, std::move(text), content_type);
-  // A fixed-length content provider is sent as is (the server compresses
-  // only bodies and chunked providers), so the stored member goes out once.
+  const std::string identity = "\"" + etag + "\"", member = "\"" + etag + ".gz\"";
+  if (match.empty() ||
+      !(match == "*" || match.find(identity) != std::string::npos || match.find(member) != std::string::npos))
+    return false;
+  c.res.set_header("ETag", identity);
+  c.res.status = 304;
+  return true;
+}
+
+void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type) {
+  if (not_modified(c, etag)) return;
+  c.res.set_header("ETag", "\"" + etag + "\"");
+  c.reply_text(200, std::move(text), content_type);
+}
+
+void reply_document(Context& c, const std::string& etag, RenderedSeriesCache::Document document,
+                    const std::string& content_type, bool gzip) {
+  if (not_modified(c, etag)) return;
+  c.res.set_header("ETag", "\"" + etag + (gzip ? ".gz\"" : "\""));
   c.res.status = 200;
-  c.res.set_header("Content-Encoding", "gzip");
-  auto bytes = std::make_shared<const std::string>(std::move(text));
-  c.res.set_content_provider(bytes->size(), content_type,
-                             [bytes](std::size_t offset, std::size_t length, httplib::DataSink& sink) {
-                               return sink.write(bytes->data() + offset, length);
+  if (gzip) c.res.set_header("Content-Encoding", "gzip");
+  // A fixed-length content provider is sent as is (the server compresses only
+  // bodies and chunked providers), so the cached document goes out without a copy.
+  c.res.set_content_provider(document->size(), content_type,
+                             [document](std::size_t offset, std::size_t length, httplib::DataSink& sink) {
+                               return sink.write(document->data() + offset, length);
                              });
 }
 
 Service::Impl::Impl(store::Store& store, ServiceOptions options)
     : store(store),
       options(options),
-      runs(store, metrics, options.run_workers, options.max_queued_runs) {}
+      runs(store, [this](const std::string& state) { metrics.count_run(state); }, options.run_workers,
+           options.max_queued_runs) {}
 
 void Service::Impl::dispatch(const Route& route, const httplib::Request& req, httplib::Response& res) {
   const auto start = std::chrono::steady_clock::now();
@@ -287,6 +297,6 @@ void Service::stop() {
   if (impl_->listener.joinable()) impl_->listener.join();
 }
 
-RunManager& Service::runs() { return impl_->runs; }
+app::RunManager& Service::runs() { return impl_->runs; }
 
 }  // namespace strandline::http

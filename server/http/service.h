@@ -10,9 +10,11 @@
 
 #include "server/store/store.h"
 
-namespace strandline::http {
-
+namespace strandline::app {
 class RunManager;
+}  // namespace strandline::app
+
+namespace strandline::http {
 
 struct ServiceOptions {
   bool read_key_required = false;
@@ -49,7 +51,7 @@ class Service {
   void start();
   void stop();
 
-  RunManager& runs();
+  app::RunManager& runs();
   static const std::vector<RouteInfo>& routes();
 
   struct Impl;

@@ -14,7 +14,8 @@
 
 #include "server/http/metrics.h"
 #include "server/http/problem.h"
-#include "server/http/run_manager.h"
+#include "server/http/rendered_series.h"
+#include "server/app/run_manager.h"
 #include "server/http/service.h"
 #include "server/store/store.h"
 
@@ -60,7 +61,8 @@ struct Service::Impl {
   store::Store& store;
   ServiceOptions options;
   Metrics metrics;
-  RunManager runs;
+  RenderedSeriesCache series_cache{std::size_t{64} << 20};
+  app::RunManager runs;
   httplib::Server server;
   std::thread listener;
   std::atomic<std::size_t> in_flight{0};
@@ -74,11 +76,16 @@ struct Service::Impl {
 // Renders a problem into the response.
 void write_problem(httplib::Response& res, const Problem& p, const std::string& instance);
 
+// True (and the reply set to 304) when If-None-Match names `etag` (or its
+// gzip form "<etag>.gz": the document is the same) or is "*".
+bool not_modified(Context& c, const std::string& etag);
+
 // Writes `text` for a GET with an ETag, or 304 when If-None-Match matches.
-// With `gzip_member`, `text` is a stored gzip member of the document: sent as
-// is with Content-Encoding gzip under the ETag "<etag>.gz" (either ETag
-// revalidates: the document is the same). Replies vary by Accept-Encoding.
-void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type,
-                     bool gzip_member = false);
+void reply_with_etag(Context& c, const std::string& etag, std::string text, const std::string& content_type);
+
+// Sends a rendered document as is: with `gzip`, a gzip member with
+// Content-Encoding gzip under the ETag "<etag>.gz". Replies vary by Accept-Encoding.
+void reply_document(Context& c, const std::string& etag, RenderedSeriesCache::Document document,
+                    const std::string& content_type, bool gzip);
 
 }  // namespace strandline::http

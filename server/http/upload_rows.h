@@ -1,37 +1,38 @@
-// Upload bodies → store rows, every bad row collected with its reason. The
-// observation rules are the batch reader's (validate_observation_row); series
-// rules follow the batch readers' ranges.
+// Rendering of uploads in replies: row issues as the report's rows, and the
+// errors of server/app/uploads.h as RFC 7807 problems.
 #pragma once
 
-#include <set>
 #include <string>
-#include <string_view>
 #include <vector>
 
-#include "corrections/core/sensor_table.h"
+#include <nlohmann/json.hpp>
+
+#include "corrections/core/errors.h"
+#include "server/http/problem.h"
 #include "server/http/tabular_body.h"
 #include "server/store/store.h"
 
 namespace strandline::http {
 
-template <class Row>
-struct ParsedUpload {
-  std::vector<Row> rows;                 // valid rows
-  std::vector<store::RowIssue> invalid;  // rows refused, with reasons
-  std::int64_t received = 0;
-};
-
-// `transects`: the site's defined transects (a row naming another is invalid).
-ParsedUpload<store::ObservationRow> parse_observation_upload(std::string_view body, BodyFormat format,
-                                                             const std::set<std::string>& transects,
-                                                             const SensorTable& sensors);
-ParsedUpload<store::WaterLevelRow> parse_water_level_upload(std::string_view body, BodyFormat format);
-ParsedUpload<store::WaveRow> parse_wave_upload(std::string_view body, BodyFormat format);
-ParsedUpload<store::SlopeRow> parse_slope_upload(std::string_view body, BodyFormat format,
-                                                 const std::set<std::string>& transects);
-
 // The report form of a row issue: {"line", "field", "value", "reason"} (JSON
 // bodies: "pointer" to the array element instead of "line").
 nlohmann::json row_issue_json(const store::RowIssue& issue, BodyFormat format, const std::string& array_key);
+nlohmann::json row_issues_json(const std::vector<store::RowIssue>& issues, BodyFormat format,
+                               const std::string& array_key);
+
+// A body refused as a whole: not JSON → 400 bad-json; a header, JSON shape or
+// whole-record rule → 422 invalid-body (with `field` or `pointer`).
+Problem body_problem(const std::exception& e);
+
+// Runs `upload`, turning a refused body into its problem. Row issues
+// (app::InvalidRows) pass through to the caller.
+template <class Fn>
+auto refusing_bad_bodies(Fn&& upload) -> decltype(upload()) {
+  try {
+    return upload();
+  } catch (const InputError& e) {
+    throw body_problem(e);
+  }
+}
 
 }  // namespace strandline::http

@@ -2,6 +2,7 @@
 
 #include <cmath>
 #include <cstdio>
+#include <cstdlib>
 #include <fstream>
 #include <stdexcept>
 
@@ -32,59 +33,47 @@ const std::vector<ColumnSpec>& cleaned_columns() {
 namespace {
 CellValue real(double v) { return known(v) ? CellValue{v} : CellValue{}; }
 
-// JSON carries the same decimals as CSV: the values agree in both formats and
-// no reply spends 17 digits on a position known to a few metres.
-double rounded(double v, int decimals) {
-  const double scale = std::pow(10.0, decimals);
-  return std::round(v * scale) / scale;
+// JSON carries the CSV's value: the number the CSV text spells, so both
+// formats agree to the last digit (a rounding of its own would differ on ties)
+// and no reply spends 17 digits on a position known to a few metres.
+double as_written(double v, int decimals) {
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
+  return std::strtod(buf, nullptr);
 }
 }  // namespace
 
-void cleaned_values(const SiteTable& t, std::size_t i, std::vector<CellValue>& out) {
-  const TransectInfo& tr = t.transects[t.transect[i]];
-  const bool has_slope = known(tr.slope);
+void cleaned_values(const CleanedRow& r, std::vector<CellValue>& out) {
   out.clear();
-  out.emplace_back(tr.id);
-  out.emplace_back(format_time_utc(t.time_s[i]));
-  out.emplace_back(t.sensor_names[t.sensor[i]]);
-  out.emplace_back(t.image_ids[t.image[i]]);
-  out.push_back(real(t.chainage_raw_m[i]));
-  out.push_back(real(t.water_level_m[i]));
-  out.push_back(real(t.setup_m[i]));
-  out.push_back(real(t.runup_m[i]));
-  out.push_back(real(t.wave_level_m[i]));
-  out.push_back(real(tr.z_ref_m));
-  out.push_back(has_slope ? real(tr.slope) : CellValue{});
-  out.push_back(real(t.correction_m[i]));
-  out.push_back(real(t.chainage_m[i]));
-  out.push_back(real(t.sigma_m[i]));
-  out.push_back(real(t.sigma_sensor_m[i]));
-  out.push_back(real(t.sigma_water_level_m[i]));
-  out.push_back(real(t.sigma_slope_m[i]));
-  out.push_back(real(t.sigma_wave_m[i]));
-  out.push_back(real(t.cloud_fraction[i]));
-  out.push_back(real(t.georef_rmse_m[i]));
-  out.emplace_back(flag_list(t.flags[i]));
-  out.emplace_back(std::int64_t{t.accepted(i) ? 1 : 0});
+  out.emplace_back(r.transect_id);
+  out.emplace_back(format_time_utc(r.time_s));
+  out.emplace_back(r.sensor);
+  out.emplace_back(r.image_id);
+  for (double v : {r.chainage_raw_m, r.water_level_m, r.setup_m, r.runup_m, r.wave_level_m, r.z_ref_m, r.slope,
+                   r.correction_m, r.chainage_m, r.sigma_m, r.sigma_sensor_m, r.sigma_water_level_m, r.sigma_slope_m,
+                   r.sigma_wave_m, r.cloud_fraction, r.georef_rmse_m})
+    out.push_back(real(v));
+  out.emplace_back(flag_list(r.flags));
+  out.emplace_back(std::int64_t{r.accepted ? 1 : 0});
 }
 
-nlohmann::json cleaned_row_json(const SiteTable& t, std::size_t i) {
+nlohmann::json cleaned_row_json(const CleanedRow& r) {
   std::vector<CellValue> values;
-  cleaned_values(t, i, values);
+  cleaned_values(r, values);
   const auto& cols = cleaned_columns();
   nlohmann::json j = nlohmann::json::object();
   for (std::size_t c = 0; c < cols.size(); ++c) {
     const auto& v = values[c];
     if (cols[c].name == "flags") {
       nlohmann::json names = nlohmann::json::array();
-      for (auto n : flag_names(t.flags[i])) names.push_back(std::string(n));
+      for (auto n : flag_names(r.flags)) names.push_back(std::string(n));
       j["flags"] = names;
     } else if (cols[c].name == "accepted") {
-      j["accepted"] = t.accepted(i);
+      j["accepted"] = r.accepted;
     } else if (std::holds_alternative<std::monostate>(v)) {
       j[cols[c].name] = nullptr;
     } else if (auto* d = std::get_if<double>(&v)) {
-      j[cols[c].name] = rounded(*d, cols[c].decimals);
+      j[cols[c].name] = as_written(*d, cols[c].decimals);
     } else if (auto* n = std::get_if<std::int64_t>(&v)) {
       j[cols[c].name] = *n;
     } else {
@@ -102,7 +91,35 @@ std::string format_cell(const CellValue& value, const ColumnSpec& spec) {
     return buf;
   }
   if (auto* n = std::get_if<std::int64_t>(&value)) return std::to_string(*n);
-  return csv_escape(std::get<std::string>(value));
+  return std::get<std::string>(value);
+}
+
+void append_csv_record(std::string& out, const std::vector<CellValue>& values, const std::vector<ColumnSpec>& columns) {
+  for (std::size_t c = 0; c < columns.size(); ++c) {
+    if (c) out += ',';
+    out += columns[c].kind == ColumnSpec::Kind::text ? csv_escape(format_cell(values[c], columns[c]))
+                                                      : format_cell(values[c], columns[c]);
+  }
+  out += '\n';
+}
+
+std::string cleaned_rows_csv(const std::vector<CleanedRow>& rows) {
+  const auto& columns = cleaned_columns();
+  std::string out;
+  for (std::size_t c = 0; c < columns.size(); ++c) out += (c ? "," : "") + columns[c].name;
+  out += '\n';
+  std::vector<CellValue> values;
+  for (const auto& r : rows) {
+    cleaned_values(r, values);
+    append_csv_record(out, values, columns);
+  }
+  return out;
+}
+
+nlohmann::json cleaned_rows_json(const std::vector<CleanedRow>& rows) {
+  nlohmann::json out = nlohmann::json::array();
+  for (const auto& r : rows) out.push_back(cleaned_row_json(r));
+  return out;
 }
 
 CleanedRowStream::CleanedRowStream(const std::string& input_path, const ObservationFile& observations,
@@ -147,7 +164,7 @@ void CleanedRowStream::stream(const RowFn& on_row, const RejectedFn& on_rejected
       if (on_rejected) on_rejected(fields, p);
       continue;
     }
-    cleaned_values(table_, static_cast<std::size_t>(row), values);
+    cleaned_values(cleaned_row(table_, static_cast<std::size_t>(row)), values);
     for (auto c : observations_.columns.extra) values.emplace_back(c < fields.size() ? fields[c] : std::string());
     on_row(static_cast<std::size_t>(row), values);
   }
@@ -171,11 +188,7 @@ void write_cleaned_csv(const CleanedRowStream& rows, const std::string& out_path
   rows.stream(
       [&](std::size_t, const std::vector<CellValue>& values) {
         line.clear();
-        for (std::size_t c = 0; c < cols.size(); ++c) {
-          if (c) line += ',';
-          line += format_cell(values[c], cols[c]);
-        }
-        line += '\n';
+        append_csv_record(line, values, cols);
         o << line;
       },
       [&](const std::vector<std::string>& fields, const RowProblem& p) {

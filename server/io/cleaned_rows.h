@@ -12,6 +12,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "corrections/core/cleaned_row.h"
 #include "corrections/core/site_table.h"
 #include "server/io/observations_csv.h"
 
@@ -28,15 +29,23 @@ struct ColumnSpec {
 // The engine's columns, in output order.
 const std::vector<ColumnSpec>& cleaned_columns();
 
-// Values of the engine's columns for one table row (same order as cleaned_columns()).
-void cleaned_values(const SiteTable& table, std::size_t row, std::vector<CellValue>& out);
+// Values of the engine's columns for one row (same order as cleaned_columns()).
+void cleaned_values(const CleanedRow& row, std::vector<CellValue>& out);
 
 // One row as JSON (flags as an array, unknown values null, sigma terms listed,
 // reals rounded to the column's decimals as in CSV).
-nlohmann::json cleaned_row_json(const SiteTable& table, std::size_t row);
+nlohmann::json cleaned_row_json(const CleanedRow& row);
 
-// Text form of a cell for CSV.
+// Text form of a cell (reals to the column's decimals; unknown = empty), not
+// escaped: the CSV writer escapes, other writers take the text as it is.
 std::string format_cell(const CellValue& value, const ColumnSpec& spec);
+
+// Appends one CSV record (each cell escaped once, RFC 4180) and a line break.
+void append_csv_record(std::string& out, const std::vector<CellValue>& values, const std::vector<ColumnSpec>& columns);
+
+// A transect's rows as CSV with a header line, and as a JSON array.
+std::string cleaned_rows_csv(const std::vector<CleanedRow>& rows);
+nlohmann::json cleaned_rows_json(const std::vector<CleanedRow>& rows);
 
 // Streams the observation file again, in input order, joining each valid row
 // with its table row (extra columns carried through) and each rejected row with

@@ -1,5 +1,6 @@
 #include "server/io/transect_params_csv.h"
 
+#include <cmath>
 #include <fstream>
 
 #include "corrections/core/csv_reader.h"
@@ -7,57 +8,34 @@
 
 namespace strandline {
 
-std::optional<std::string> slope_problem(double slope) {
-  if (!(slope > 0)) return "slope must be positive (tan(beta), e.g. 0.08)";
-  if (slope > 1) return "slope above 1 (tan(beta) > 45 degrees): give tan(beta), not degrees or percent";
-  return std::nullopt;
-}
-
 TransectParams read_transect_params(std::istream& in, const std::string& file, bool require_slope) {
   CsvTable csv(in, file);
-  const auto c_id = csv.header().require("transect_id");
-  const auto c_slope = require_slope ? std::optional(csv.header().require("slope")) : csv.header().find("slope");
-  const auto c_sigma = csv.header().find("slope_sigma");
-  const auto c_zref = csv.header().find("z_ref_m");
-  if (!c_slope && !c_zref)
-    throw InputError(file, 1, "", "", "expected a slope or z_ref_m column beside transect_id");
-  for (const auto& name : csv.header().names())
-    if (name != "transect_id" && name != "slope" && name != "slope_sigma" && name != "z_ref_m")
-      throw InputError(file, 1, "", "", "unknown column \"" + name + "\" (expected transect_id, slope, slope_sigma, z_ref_m)");
+  // The slope columns of an upload plus z_ref_m; --slopes (require_slope) needs the slope column.
+  const ResolvedColumns c = resolve_columns(csv.header().names(), slope_input_columns(true), file);
+  if (require_slope) csv.header().require("slope");
+  const std::optional<std::size_t> c_slope = c.at[1], c_sigma = c.at[2], c_zref = c.at[3];
+  if (!c_slope && !c_zref) throw InputError(file, 1, "", "", "expected a slope or z_ref_m column beside transect_id");
   TransectParams out;
+  SlopeFileRules rules;
   std::vector<std::string> f;
-  std::unordered_map<std::string, std::int64_t> seen;
+  auto cell = [&](std::optional<std::size_t> col) { return col ? std::string_view(f[*col]) : std::string_view(); };
+  auto fail = [&](const RowProblem& p) { throw InputError(file, csv.line(), p.field, p.value, p.reason); };
+  SlopeFields row;
   while (csv.next(f)) {
-    const std::string& id = f[c_id];
-    if (id.empty()) throw InputError(file, csv.line(), "transect_id", id, "empty transect id");
-    if (auto [it, fresh] = seen.emplace(id, csv.line()); !fresh)
-      throw InputError(file, csv.line(), "transect_id", id, "listed twice (first on line " + std::to_string(it->second) + ")");
-    auto number = [&](std::size_t col, const char* name) -> std::optional<double> {
-      try {
-        return parse_optional_number(f[col]);
-      } catch (const FieldError& e) {
-        throw InputError(file, csv.line(), name, f[col], e.what());
-      }
-    };
-    if (c_slope) {
-      auto slope = number(*c_slope, "slope");
-      if (!slope && require_slope) throw InputError(file, csv.line(), "slope", "", "empty slope");
-      if (slope) {
-        if (auto why = slope_problem(*slope)) throw InputError(file, csv.line(), "slope", f[*c_slope], *why);
-        SlopeValue v{*slope, kUnknown};
-        if (c_sigma) {
-          if (auto sigma = number(*c_sigma, "slope_sigma")) {
-            if (*sigma < 0) throw InputError(file, csv.line(), "slope_sigma", f[*c_sigma], "must not be negative");
-            v.slope_sigma = *sigma;
-          }
-        }
-        out.slopes[id] = v;
-      }
-    }
+    if (auto p = slope_row(f[*c.at[0]], cell(c_slope), cell(c_sigma), require_slope, row)) fail(*p);
+    if (auto p = rules.admit(row.transect_id, csv.line())) fail(*p);
+    if (known(row.slope)) out.slopes[row.transect_id] = SlopeValue{row.slope, row.slope_sigma};
     if (c_zref) {
-      if (auto z = number(*c_zref, "z_ref_m")) {
-        if (std::abs(*z) > 50) throw InputError(file, csv.line(), "z_ref_m", f[*c_zref], "implausible reference elevation (metres expected)");
-        out.z_ref_m[id] = *z;
+      std::optional<double> z;
+      try {
+        z = parse_optional_number(f[*c_zref]);
+      } catch (const FieldError& e) {
+        throw InputError(file, csv.line(), "z_ref_m", f[*c_zref], e.what());
+      }
+      if (z) {
+        if (std::abs(*z) > 50)
+          throw InputError(file, csv.line(), "z_ref_m", f[*c_zref], "implausible reference elevation (metres expected)");
+        out.z_ref_m[row.transect_id] = *z;
       }
     }
   }

@@ -1,6 +1,7 @@
 // Per-transect parameters: `--slopes FILE` (CSV `transect_id,slope[,slope_sigma]`)
 // and `--transect-params FILE` (CSV `transect_id` plus any of `slope`,
-// `slope_sigma`, `z_ref_m`). Slopes are tan(beta), dimensionless, in (0, 1].
+// `slope_sigma`, `z_ref_m`). Slopes are tan(beta), dimensionless, in (0, 1];
+// the slope rules are series_rules.h, shared with the HTTP upload of slopes.
 #pragma once
 
 #include <istream>
@@ -8,6 +9,7 @@
 #include <unordered_map>
 
 #include "corrections/core/run_inputs.h"
+#include "server/io/series_rules.h"
 
 namespace strandline {
 
@@ -20,8 +22,6 @@ struct TransectParams {
 TransectParams read_transect_params(std::istream& in, const std::string& file, bool require_slope);
 TransectParams read_transect_params_file(const std::string& path, bool require_slope);
 
-// Checks a slope value from any source (option or file): finite, 0 < s <= 1.
-// Returns the reason when invalid.
-std::optional<std::string> slope_problem(double slope);
+// slope_problem (the slope range rule) is declared in series_rules.h.
 
 }  // namespace strandline

@@ -4,42 +4,27 @@
 
 #include "corrections/core/csv_reader.h"
 #include "corrections/core/errors.h"
+#include "server/io/series_rules.h"
 
 namespace strandline {
 
 GaugeSeries read_water_levels(std::istream& in, const std::string& file, double sigma_m) {
   CsvTable csv(in, file);
-  const auto c_time = csv.header().require("time");
-  const auto c_level = csv.header().require("level_m");
+  const ResolvedColumns columns = resolve_columns(csv.header().names(), water_level_input_columns(), file);
+  const std::size_t c_time = *columns.at[0], c_level = *columns.at[1];
+  WaterLevelFileRules rules;
   std::vector<TimeS> times;
   std::vector<double> levels;
   std::vector<std::string> f;
-  std::int64_t previous_line = 0;
+  auto fail = [&](const RowProblem& p, std::int64_t line) { throw InputError(file, line, p.field, p.value, p.reason); };
+  WaterLevelSample sample;
   while (csv.next(f)) {
-    TimeS t;
-    double level;
-    try {
-      t = parse_time_utc(f[c_time]);
-    } catch (const FieldError& e) {
-      throw InputError(file, csv.line(), "time", f[c_time], e.what());
-    }
-    try {
-      level = parse_number(f[c_level]);
-    } catch (const FieldError& e) {
-      throw InputError(file, csv.line(), "level_m", f[c_level], e.what());
-    }
-    if (!times.empty() && !(t > times.back()))
-      throw InputError(file, csv.line(), "time", f[c_time],
-                       t == times.back() ? "repeats the time of line " + std::to_string(previous_line)
-                                         : "earlier than line " + std::to_string(previous_line) +
-                                               " (times must increase)");
-    if (std::abs(level) > 100.0)
-      throw InputError(file, csv.line(), "level_m", f[c_level], "implausible water level (metres expected)");
-    times.push_back(t);
-    levels.push_back(level);
-    previous_line = csv.line();
+    if (auto p = water_level_row(f[c_time], f[c_level], sample)) fail(*p, csv.line());
+    if (auto p = rules.admit(sample, f[c_time], csv.line())) fail(*p, csv.line());
+    times.push_back(sample.time_s);
+    levels.push_back(sample.level_m);
   }
-  if (times.size() < 2) throw InputError(file, 0, "", "", "need at least two water-level samples");
+  if (auto problems = rules.finish(); !problems.empty()) fail(problems.front(), problems.front().line);
   return GaugeSeries(std::move(times), std::move(levels), sigma_m);
 }
 

@@ -1,10 +1,10 @@
 // Reader of the wave record `waves.csv`:
-//   time,hs_m,tp_s,dir_deg[,depth_m]
-// one sea state per row, times (ISO 8601 with zone) strictly increasing; hs_m in
-// [0, 30], tp_s in [1, 40], dir_deg in [0, 360] or empty (unknown); depth_m, when
-// the column is present, the positive depth of a nearshore record on every row
-// (absent column: deep-water values). Other columns are errors (typos never pass
-// silently). Errors are InputErrors naming file, line and field.
+//   time,hs_m,tp_s[,dir_deg][,depth_m]
+// with the rules of series_rules.h (shared with the HTTP upload): one sea state
+// per row, times strictly increasing, hs_m in [0, 30] m, tp_s in [1, 40] s,
+// dir_deg in [0, 360] or empty (unknown), depth_m > 0 on every row or on none
+// (deep water). Other columns are errors. Errors are InputErrors naming file,
+// line and field.
 #pragma once
 
 #include <istream>

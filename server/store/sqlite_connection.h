@@ -14,12 +14,9 @@
 struct sqlite3;
 struct sqlite3_stmt;
 
-namespace strandline::store {
+#include "server/store/store_error.h"
 
-class StoreError : public std::runtime_error {
- public:
-  using std::runtime_error::runtime_error;
-};
+namespace strandline::store {
 
 // A prepared statement borrowed from the connection's cache; reset and its
 // bindings cleared when the borrow ends.

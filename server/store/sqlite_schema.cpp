@@ -3,6 +3,10 @@
 #include <string>
 #include <vector>
 
+#include <nlohmann/json.hpp>
+
+#include "server/store/result_rows_codec.h"
+
 namespace strandline::store {
 
 namespace {
@@ -10,7 +14,22 @@ namespace {
 struct Migration {
   int version;
   const char* sql;
+  void (*then)(Connection&) = nullptr;  // data changes SQL cannot express, same transaction
 };
+
+// Schema 4: series documents (JSON and CSV reply bodies, gzip members) become
+// typed result rows; the faces render and compress what they send.
+void series_documents_to_rows(Connection& db) {
+  auto documents = db.prepare("SELECT result_seq, content FROM result_documents WHERE kind = 'json'");
+  auto insert = db.prepare("INSERT INTO result_rows(result_seq, content) VALUES(?, ?)");
+  while (documents.step()) {
+    const auto document = nlohmann::json::parse(documents.blob_view(1));
+    insert.bind(1, documents.integer(0)).bind_blob(2, encode_result_rows(rows_from_series_json(document.at("rows"))));
+    insert.run();
+    insert.reset();
+  }
+  db.exec("DROP TABLE result_documents");
+}
 
 // `live` marks rows of uploads that are not retracted; values are never updated.
 // The partial unique indexes make idempotency a single INSERT ... ON CONFLICT.
@@ -209,6 +228,12 @@ INSERT INTO result_documents(result_seq, kind, content) SELECT seq, 'csv', rows_
 ALTER TABLE results DROP COLUMN rows_json;
 ALTER TABLE results DROP COLUMN rows_csv;
 )sql"},
+    {4, R"sql(
+CREATE TABLE result_rows(
+  result_seq INTEGER PRIMARY KEY REFERENCES results(seq),
+  content BLOB NOT NULL);
+)sql",
+     series_documents_to_rows},
 };
 
 }  // namespace
@@ -229,6 +254,7 @@ int migrate_sqlite_schema(Connection& db, int up_to_version) {
     if (m.version <= current || m.version > up_to_version) continue;
     Transaction tx(db);
     db.exec(m.sql);
+    if (m.then) m.then(db);
     db.prepare("INSERT INTO schema_migrations(version, applied_at) VALUES(?, strftime('%Y-%m-%dT%H:%M:%SZ','now'))")
         .bind(1, m.version)
         .run();

@@ -8,6 +8,8 @@
 #include <cmath>
 
 #include "corrections/core/time_utc.h"
+#include "server/store/api_keys.h"
+#include "server/store/result_rows_codec.h"
 #include "server/store/sqlite_schema.h"
 #include "server/store/sqlite_store_common.h"
 
@@ -288,28 +290,24 @@ void SqliteStore::finish_run(std::int64_t run_id, const nlohmann::json& provenan
       "SELECT sha256 FROM results WHERE site_key = ? AND transect_id = ? ORDER BY seq DESC LIMIT 1");
   auto insert = writer_->prepare(
       "INSERT INTO results(run_id, site_key, transect_id, summary, sha256, changed) VALUES(?, ?, ?, ?, ?, ?)");
-  auto document = writer_->prepare("INSERT INTO result_documents(result_seq, kind, content) VALUES(?, ?, ?)");
+  auto rows = writer_->prepare("INSERT INTO result_rows(result_seq, content) VALUES(?, ?)");
   for (const auto& r : results) {
+    const std::string encoded = encode_result_rows(r.rows);
+    const std::string sha256 = sha256_hex(encoded);
     previous.bind(1, key).bind(2, r.transect_id);
-    const bool changed = !previous.step() || previous.text_view(0) != r.sha256;
+    const bool changed = !previous.step() || previous.text_view(0) != sha256;
     previous.reset();
     insert.bind(1, run_id)
         .bind(2, key)
         .bind(3, r.transect_id)
         .bind(4, r.summary.dump())
-        .bind(5, r.sha256)
+        .bind(5, sha256)
         .bind(6, changed ? 1 : 0);
     insert.run();
     insert.reset();
-    const std::int64_t seq = writer_->last_insert_rowid();
-    const std::pair<const char*, const std::string*> documents[] = {
-        {"json", &r.rows_json}, {"csv", &r.rows_csv}, {"json.gz", &r.rows_json_gzip}, {"csv.gz", &r.rows_csv_gzip}};
-    for (const auto& [kind, content] : documents) {
-      if (content->empty()) continue;
-      document.bind(1, seq).bind(2, kind).bind_blob(3, *content);
-      document.run();
-      document.reset();
-    }
+    rows.bind(1, writer_->last_insert_rowid()).bind_blob(2, encoded);
+    rows.run();
+    rows.reset();
   }
   writer_
       ->prepare(
@@ -358,8 +356,7 @@ TransectResult read_result(const Statement& q, bool with_summary = true) {
 }  // namespace
 
 std::optional<TransectResult> SqliteStore::result(const std::string& site_id, const std::string& transect_id,
-                                                  std::int64_t run_id, SeriesText text, Encoding encoding,
-                                                  bool with_summary) {
+                                                  std::int64_t run_id, ResultParts parts) {
   auto db = reader();
   const auto key = site_key(*db, site_id);
   auto q = db->prepare(
@@ -367,23 +364,12 @@ std::optional<TransectResult> SqliteStore::result(const std::string& site_id, co
       "(? = 0 OR run_id = ?) ORDER BY run_id DESC LIMIT 1");
   q.bind(1, key).bind(2, transect_id).bind(3, run_id).bind(4, run_id);
   if (!q.step()) return std::nullopt;
-  TransectResult r = read_result(q, with_summary);
-  const bool json = text == SeriesText::json;
-  // The gzip member when asked for and stored, else the identity document: one
-  // keyed lookup each (a single query ordering both would copy both documents).
-  auto doc = db->prepare("SELECT content FROM result_documents WHERE result_seq = ? AND kind = ?");
-  const char* identity = json ? "json" : "csv";
-  if (encoding == Encoding::gzip) {
-    doc.bind(1, r.seq).bind(2, json ? "json.gz" : "csv.gz");
-    if (doc.step()) {
-      (json ? r.rows_json_gzip : r.rows_csv_gzip) = std::string(doc.blob_view(0));
-      return r;
-    }
-    doc.reset();
-  }
-  doc.bind(1, r.seq).bind(2, identity);
-  if (!doc.step()) throw StoreError("result " + std::to_string(r.seq) + " has no " + identity + " document");
-  (json ? r.rows_json : r.rows_csv) = std::string(doc.blob_view(0));
+  TransectResult r = read_result(q, parts.summary);
+  if (!parts.rows) return r;
+  auto rows = db->prepare("SELECT content FROM result_rows WHERE result_seq = ?");
+  rows.bind(1, r.seq);
+  if (!rows.step()) throw StoreError("result " + std::to_string(r.seq) + " has no rows");
+  r.rows = decode_result_rows(rows.blob_view(0));
   return r;
 }
 

@@ -47,6 +47,8 @@ class SqliteStore final : public Store {
   std::vector<WaterLevelRow> live_water_levels(const std::string& site_id) override;
   std::vector<WaveRow> live_waves(const std::string& site_id) override;
   std::vector<SlopeRow> live_slopes(const std::string& site_id) override;
+  std::vector<StoredImage> stored_images(const std::string& site_id,
+                                         const std::vector<std::string>& image_ids) override;
   std::optional<std::string> live_document(const std::string& site_id, const std::string& kind) override;
   std::int64_t input_seq(const std::string& site_id) override;
   std::optional<std::set<std::string>> changed_transects(const std::string& site_id, std::int64_t since) override;
@@ -62,8 +64,7 @@ class SqliteStore final : public Store {
   int fail_interrupted_runs() override;
 
   std::optional<TransectResult> result(const std::string& site_id, const std::string& transect_id,
-                                       std::int64_t run_id, SeriesText text, Encoding encoding,
-                                       bool with_summary) override;
+                                       std::int64_t run_id, ResultParts parts) override;
   std::vector<TransectResult> latest_summaries(const std::string& site_id) override;
   std::vector<TransectResult> changes(const std::string& site_id, std::int64_t since, int limit) override;
 

@@ -659,6 +659,32 @@ std::vector<SlopeRow> SqliteStore::live_slopes(const std::string& site_id) {
   return out;
 }
 
+// Images are interned per site: an id never interned has no rows (the common
+// case of new images costs one index probe). For the others, one live row is
+// found through the (site, transect, image) index, transect by transect.
+std::vector<StoredImage> SqliteStore::stored_images(const std::string& site_id,
+                                                    const std::vector<std::string>& image_ids) {
+  auto db = reader();
+  const auto key = site_key(*db, site_id);
+  auto image_key = db->prepare("SELECT id_key FROM interned_ids WHERE site_key = ? AND kind = 'image' AND name = ?");
+  auto live_row = db->prepare(
+      "SELECT o.time_s, o.sensor FROM interned_ids t JOIN observations o "
+      "ON o.site_key = t.site_key AND o.transect_key = t.id_key AND o.image_key = ? AND o.live = 1 "
+      "WHERE t.site_key = ? AND t.kind = 'transect' LIMIT 1");
+  std::vector<StoredImage> out;
+  for (const auto& id : image_ids) {
+    image_key.bind(1, key).bind(2, id);
+    const bool interned = image_key.step();
+    const std::int64_t k = interned ? image_key.integer(0) : 0;
+    image_key.reset();
+    if (!interned) continue;
+    live_row.bind(1, k).bind(2, key);
+    if (live_row.step()) out.push_back({id, live_row.real(0), live_row.text(1)});
+    live_row.reset();
+  }
+  return out;
+}
+
 std::optional<std::string> SqliteStore::live_document(const std::string& site_id, const std::string& kind) {
   auto db = reader();
   const auto key = site_key(*db, site_id);

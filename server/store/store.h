@@ -18,9 +18,10 @@
 
 #include <nlohmann/json.hpp>
 
+#include "corrections/core/cleaned_row.h"
 #include "corrections/core/site_table.h"
 #include "corrections/core/time_utc.h"
-#include "server/store/sqlite_connection.h"
+#include "server/store/store_error.h"
 
 namespace strandline::store {
 
@@ -80,6 +81,13 @@ struct RowIssue {
   std::string field;   // empty when the whole row is at fault
   std::string value;   // the offending text, when one field is at fault
   std::string reason;
+};
+
+// An image as stored for a site (live observations, any transect).
+struct StoredImage {
+  std::string image_id;
+  TimeS time_s = 0;
+  std::string sensor;
 };
 
 // What the caller knows about an upload before storing it.
@@ -151,17 +159,15 @@ struct RunInfo {
   std::string requested_by;
 };
 
-// One transect's cleaned series from one run.
+// One transect's cleaned series from one run: typed rows, never a reply body
+// (the faces render and compress what they send).
 struct TransectResult {
   std::int64_t seq = 0;  // change cursor position
   std::int64_t run_id = 0;
   std::string transect_id;
-  std::string rows_json;  // the series reply document: {"site","transect_id","run_id","rows":[...]}
-  std::string rows_csv;   // the same rows as CSV with a header
+  std::vector<CleanedRow> rows;
   nlohmann::json summary;
-  std::string sha256;     // of the rows alone (not the run id): the ETag and change test
-  std::string rows_json_gzip;  // gzip members of the two documents (empty: none stored)
-  std::string rows_csv_gzip;
+  std::string sha256;  // of the rows alone (not the run id): the ETag and change test
 };
 
 struct ApiKey {
@@ -212,6 +218,10 @@ class Store {
   // `transects` empty = every transect.
   virtual std::vector<ObservationRow> live_observations(const std::string& site_id,
                                                         const std::set<std::string>& transects) = 0;
+  // The stored time and sensor of those of `image_ids` that have live
+  // observations (one image, one time and one sensor: the upload checks new rows against it).
+  virtual std::vector<StoredImage> stored_images(const std::string& site_id,
+                                                 const std::vector<std::string>& image_ids) = 0;
   virtual std::vector<WaterLevelRow> live_water_levels(const std::string& site_id) = 0;
   virtual std::vector<WaveRow> live_waves(const std::string& site_id) = 0;
   virtual std::vector<SlopeRow> live_slopes(const std::string& site_id) = 0;
@@ -235,16 +245,14 @@ class Store {
   // Runs left queued or running by a previous process become failed.
   virtual int fail_interrupted_runs() = 0;
 
-  // `run_id` 0 = the latest finished run containing the transect. Only the
-  // text asked for is read (series replies are large).
-  enum class SeriesText { json, csv };
-  enum class Encoding { identity, gzip };
-  // Fills the one document asked for: rows_json or rows_csv, or with gzip its
-  // member when one is stored (else the identity document, for older results);
-  // the summary only when asked (a series read does not need it).
+  // `run_id` 0 = the latest finished run containing the transect. The rows
+  // and the summary are read only when asked (a revalidation needs neither).
+  struct ResultParts {
+    bool rows = true;
+    bool summary = true;
+  };
   virtual std::optional<TransectResult> result(const std::string& site_id, const std::string& transect_id,
-                                               std::int64_t run_id, SeriesText text,
-                                               Encoding encoding = Encoding::identity, bool with_summary = true) = 0;
+                                               std::int64_t run_id, ResultParts parts) = 0;
   // The latest result of every transect (summaries only; rows left empty).
   virtual std::vector<TransectResult> latest_summaries(const std::string& site_id) = 0;
   // Results whose content changed, with seq > since, oldest first, at most `limit`.

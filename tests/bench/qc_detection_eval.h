@@ -15,6 +15,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "server/app/steps/step_list.h"
 #include "corrections/engine/pipeline.h"
 #include "corrections/water_level/gauge_series.h"
 #include "corrections/waves/wave_record.h"
@@ -63,7 +64,7 @@ inline std::unique_ptr<GeneratedRun> run_generated_site(const synthetic::SitePar
   in.sensors = &run->sensors;
   in.reference_elevation_m = params.z_ref_m;
   for (const auto& t : site.transects) in.slopes.per_transect[t.id] = {t.slope, 0.005};
-  run->record = Pipeline::from_config(config).run(run->table, in);
+  run->record = configured_pipeline(config).run(run->table, in);
   return run;
 }
 

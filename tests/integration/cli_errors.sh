@@ -71,6 +71,14 @@ expect no_water_levels 2 'no water levels' -- \
 expect unknown_subcommand 2 'unknown subcommand "corect"' -- corect
 expect rejected_without_skip 2 'option --rejected goes with --skip-invalid' -- \
   correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv" --rejected "$tmp/r.csv"
+# The shared input rules: a misspelt optional column is refused (not carried through as an extra
+# column), and water levels not in metres are refused with a units hint.
+printf 'transect_id,time,chainage_m,sensor,image_id,cloud_fration\nT1,2019-03-01T00:30:00Z,100.0,landsat8,a,0.9\n' > "$tmp/misspelt.csv"
+expect misspelt_column 2 'column "cloud_fration" looks like "cloud_fraction" misspelt' -- \
+  correct --observations "$tmp/misspelt.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv"
+printf 'time,level_m\n2019-03-01T00:00:00Z,10\n2019-03-01T01:00:00Z,40\n2019-03-01T02:00:00Z,80\n' > "$tmp/wl_cm.csv"
+expect water_levels_in_centimetres 2 'wl_cm.csv:2: level_m "10": 30 m from the record'"'"'s median' -- \
+  correct --observations "$tmp/good.csv" --water-levels "$tmp/wl_cm.csv" --slope 0.05 --out "$tmp/out.csv"
 expect good_run 0 'corrected 2 rows' -- \
   correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv"
 

@@ -23,6 +23,11 @@ truth = {r["transect_id"]: float(r["slope"]) for r in csv.DictReader(open(sys.ar
 assert doc["schema"] == "strandline.slopes" and doc["version"] == 1, "schema"
 assert doc["search_range"] == [0.01, 0.2], doc["search_range"]
 bad = 0
+# Every transect of the site is reported (an empty or truncated list must fail).
+assert sorted(t["transect_id"] for t in doc["transects"]) == sorted(truth), \
+    ([t["transect_id"] for t in doc["transects"]], sorted(truth))
+assert len(truth) == 5, truth
+checked_estimates = 0
 for t in doc["transects"]:
     for key in ("slope", "slope_ci95", "slope_source", "slope_identifiable", "verdict", "reasons", "n_images",
                 "band", "energy_curve"):
@@ -36,9 +41,14 @@ for t in doc["transects"]:
               and t["slope_ci95"][0] < t["slope"] < t["slope_ci95"][1]
               and 10 < t["band"]["centre_period_days"] < 400 and len(t["energy_curve"]["tan_beta"]) == 77)
         print(f"{t['transect_id']}: true {true:.4f} estimated {t['slope']:.4f} ({100 * err:.1f}%)")
+        checked_estimates += 1
     if not ok:
         bad += 1
         print("FAIL:", json.dumps(t)[:400])
+# The generator plants one steep transect; the other four are checked against the truth.
+if checked_estimates != 4:
+    print(f"FAIL: {checked_estimates} estimated slopes checked, expected 4")
+    bad += 1
 sys.exit(1 if bad else 0)
 PY
 
@@ -54,6 +64,8 @@ import json, sys
 est = {t["transect_id"]: t for t in json.load(open(sys.argv[1]))["transects"]}
 fixed = {t["transect_id"]: t for t in json.load(open(sys.argv[2]))["transects"]}
 auto = {t["transect_id"]: t for t in json.load(open(sys.argv[3]))["transects"]}
+assert len(est) == 5 and set(est) == set(fixed) == set(auto), (sorted(est), sorted(fixed), sorted(auto))
+assert sum(1 for e in est.values() if e["slope_identifiable"]) == 4, "expected 4 identifiable slopes"
 for tid, e in est.items():
     f, a = fixed[tid], auto[tid]
     assert a["slope"] == e["slope"] and a["slope_source"] == e["slope_source"], (tid, a["slope"], e["slope"])

@@ -94,8 +94,13 @@ for m in data:
 # true slope only a loose bound: the search's own accuracy on this site (a few
 # percent low with or without waves) is not what this test checks.
 plain = {t["transect_id"]: t.get("slope") for t in json.load(open("../plain/auto.json"))["transects"]}
+n_transects = len(slopes)
 for mode, method in (("setup", "closed_form"), ("runup", "grid_refine")):
     s = json.load(open(f"auto_{mode}.json"))
+    checked = 0
+    if sorted(t["transect_id"] for t in s["transects"]) != sorted(slopes):
+        failures += 1
+        print(f"  MISMATCH: auto_{mode}.json transects {[t['transect_id'] for t in s['transects']]}")
     for t in s["transects"]:
         d = t.get("slope_details") or {}
         if t.get("slope") is None or plain.get(t["transect_id"]) is None:
@@ -107,9 +112,14 @@ for mode, method in (("setup", "closed_form"), ("runup", "grid_refine")):
             ok = ok and abs(t["slope"] - ref) / ref < 0.01
         print(f"  --slope auto {mode:5s} {t['transect_id']}: {t['slope']:.4f} (without setup in the data "
               f"{ref:.4f}, true {true:.4f}) {d.get('method')}")
+        checked += 1
         if not ok:
             failures += 1
             print("  MISMATCH")
+    # Every transect with an estimate (the generator's steep one may have none) is checked: not zero.
+    if checked < n_transects - 1:
+        failures += 1
+        print(f"  MISMATCH: only {checked} of {n_transects} transects compared with --slope auto {mode}")
 auto = {(r["transect_id"], r["image_id"]): r for r in csv.DictReader(open("auto_setup.csv"))}
 res = [float(r["chainage_m"]) - float(truth[k]["true_chainage_m"]) for k, r in auto.items()
        if r["accepted"] == "1" and r["chainage_m"] and truth[k]["outlier_kind"] == "none"
@@ -117,6 +127,33 @@ res = [float(r["chainage_m"]) - float(truth[k]["true_chainage_m"]) for k, r in a
 print(f"  --slope auto setup: mean residual vs truth {mean(res):+.2f} m over {len(res)} points")
 if abs(mean(res)) > 2.0 or len(res) < 500:
     failures += 1
+sys.exit(1 if failures else 0)
+PY
+
+# Provenance: every input file's digest in the summary equals `sha256sum` of the
+# file (observations and waves are larger than 64 KiB, transect_params smaller:
+# a digest that hashes whole read buffers, or stops at the first one, differs).
+/usr/bin/python3 - summary_setup.json auto_runup.json <<'PY'
+import json, subprocess, sys, os
+failures = 0
+for summary in sys.argv[1:]:
+    inputs = json.load(open(summary))["provenance"]["inputs"]
+    roles = sorted(i["role"] for i in inputs)
+    if not {"observations", "water_levels", "waves"} <= set(roles):
+        failures += 1
+        print(f"  MISMATCH: {summary} inputs {roles}")
+    for item in inputs:
+        out = subprocess.run(["sha256sum", "-b", item["path"]], capture_output=True, text=True, check=True).stdout
+        want = out.split()[0]
+        size = os.path.getsize(item["path"])
+        ok = item["sha256"] == want
+        print(f"  {summary} {item['role']:16s} {size:9d} bytes sha256 {'matches' if ok else 'DIFFERS from'} sha256sum")
+        failures += 0 if ok else 1
+big = [i for i in json.load(open(sys.argv[1]))["provenance"]["inputs"] if os.path.getsize(i["path"]) > 65536]
+small = [i for i in json.load(open(sys.argv[1]))["provenance"]["inputs"] if os.path.getsize(i["path"]) < 65536]
+if not big or not small:
+    failures += 1
+    print("  MISMATCH: the digest check needs inputs above and below 64 KiB")
 sys.exit(1 if failures else 0)
 PY
 echo OK

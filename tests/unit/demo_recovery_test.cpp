@@ -5,6 +5,7 @@
 #include <cmath>
 #include <map>
 
+#include "server/app/steps/step_list.h"
 #include "corrections/engine/pipeline.h"
 #include "corrections/water_level/gauge_series.h"
 #include "demo_data/synthetic/synthetic_site.h"
@@ -31,7 +32,7 @@ TEST(DemoRecovery, TrueSlopesRecoverTruePositions) {
   in.sensors = &sensors;
   in.reference_elevation_m = params.z_ref_m;
   for (const auto& t : site.transects) in.slopes.per_transect[t.id] = {t.slope, 0.005};
-  Pipeline::defaults().run(table, in);
+  default_pipeline().run(table, in);
 
   std::map<std::string, double> noise;
   for (const auto& s : {"landsat5", "landsat7", "landsat8", "landsat9"}) noise[s] = s[7] >= '8' ? 8.0 : 9.0;

@@ -3,9 +3,9 @@
 
 #include <string>
 
-#include "server/http/gzip_document.h"
+#include "server/io/gzip_document.h"
 
-using namespace strandline::http;
+using namespace strandline;
 
 namespace {
 

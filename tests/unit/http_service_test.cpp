@@ -12,8 +12,8 @@
 #include <nlohmann/json.hpp>
 
 #include "corrections/core/time_utc.h"
-#include "server/http/gzip_document.h"
-#include "server/http/run_manager.h"
+#include "server/io/gzip_document.h"
+#include "server/app/run_manager.h"
 #include "server/http/service.h"
 #include "server/store/api_keys.h"
 
@@ -287,7 +287,7 @@ TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
   ASSERT_EQ(run["state"], "done") << run.dump();
   EXPECT_EQ(run["progress"]["transects_total"], 2);
   EXPECT_EQ(run["progress"]["transects_done"], 2);
-  EXPECT_TRUE(run["provenance"].contains("config"));
+  EXPECT_TRUE(run["provenance"].contains("configuration"));
 
   auto series = client().Get("/v1/sites/cove/transects/T1/series?run=latest&format=json");
   ASSERT_TRUE(series && series->status == 200);
@@ -308,7 +308,7 @@ TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
   ASSERT_TRUE(csv && csv->status == 200);
   EXPECT_EQ(csv->body.substr(0, 17), "transect_id,time,");
 
-  // A client accepting gzip gets the member stored by the run, byte for byte
+  // A client accepting gzip gets a gzip member of the rendered document, byte for byte
   // the same document, under its own ETag; either ETag revalidates.
   for (const auto& [format, identity] : {std::pair{"json", series->body}, std::pair{"csv", csv->body}}) {
     auto raw = client();
@@ -320,7 +320,7 @@ TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
     EXPECT_EQ(gz->get_header_value("Vary"), "Accept-Encoding");
     ASSERT_GT(gz->body.size(), 2u);
     EXPECT_LT(gz->body.size(), identity.size());
-    EXPECT_EQ(http::gzip_decompress(gz->body), identity);
+    EXPECT_EQ(gzip_decompress(gz->body), identity);
     const std::string gz_etag = gz->get_header_value("ETag");
     EXPECT_EQ(gz_etag.substr(gz_etag.size() - 4), ".gz\"");
     auto plain = raw.Get(path.c_str(), httplib::Headers{{"Accept-Encoding", "gzip;q=0, br"}});
@@ -440,3 +440,161 @@ TEST_F(HttpService, OtherUploadKinds) {
 }
 
 }  // namespace
+
+namespace {
+
+std::string summary_etag(httplib::Client c, const std::string& site) {
+  auto r = c.Get(("/v1/sites/" + site + "/summary").c_str());
+  EXPECT_TRUE(r && r->status == 200);
+  return r ? r->get_header_value("ETag") : "";
+}
+
+// The uploads apply the batch readers' rules (server/io/*_rules.h).
+TEST_F(HttpService, UploadsApplyTheBatchRules) {
+  start();
+  create_demo_site();
+  // Water levels not in metres: the units rule names the row.
+  for (const std::string wild : {"500", "1e6"}) {
+    auto r = post("/v1/sites/cove/water-levels",
+                  "time,level_m\n2020-01-01T00:00:00Z,0.4\n2020-01-01T01:00:00Z," + wild + "\n2020-01-01T02:00:00Z,0.5\n",
+                  "text/csv", write_key_);
+    expect_problem(r, 422, "/problems/invalid-rows");
+    const auto rows = json::parse(r->body)["rows"];
+    ASSERT_EQ(rows.size(), 1u) << r->body;
+    EXPECT_EQ(rows[0]["line"], 3);
+    EXPECT_EQ(rows[0]["field"], "level_m");
+  }
+  // One image, one time and one sensor within an upload...
+  const std::string header = "transect_id,time,chainage_m,sensor,image_id\n";
+  auto two_times = post("/v1/sites/cove/observations",
+                        header + "T1,2020-01-01T10:00:00Z,100,sentinel2a,A\nT2,2020-01-02T10:00:00Z,100,sentinel2a,A\n",
+                        "text/csv", write_key_);
+  expect_problem(two_times, 422, "/problems/invalid-rows");
+  EXPECT_EQ(json::parse(two_times->body)["rows"][0]["field"], "time");
+  auto two_sensors = post("/v1/sites/cove/observations",
+                          header + "T1,2020-01-01T10:00:00Z,100,sentinel2a,A\nT2,2020-01-01T10:00:00Z,100,sentinel2b,A\n",
+                          "text/csv", write_key_);
+  expect_problem(two_sensors, 422, "/problems/invalid-rows");
+  EXPECT_EQ(json::parse(two_sensors->body)["rows"][0]["field"], "sensor");
+  // ...and against the images already stored for the site, on any transect.
+  ASSERT_EQ(post("/v1/sites/cove/observations", header + "T1,2020-01-01T10:00:00Z,100,sentinel2a,A\n", "text/csv",
+                 write_key_)->status, 201);
+  auto stored_other_time = post("/v1/sites/cove/observations", header + "T2,2020-01-03T10:00:00Z,100,sentinel2a,A\n",
+                                "text/csv", write_key_);
+  expect_problem(stored_other_time, 422, "/problems/invalid-rows");
+  EXPECT_EQ(json::parse(stored_other_time->body)["rows"][0]["field"], "time");
+  // A misspelt column is refused naming it; a genuine extra column is reported as ignored.
+  auto misspelt = post("/v1/sites/cove/observations",
+                       "transect_id,time,chainage_m,sensor,image_id,cloud_fration\nT1,2020-01-05T10:00:00Z,1,sentinel2a,B,0.9\n",
+                       "text/csv", write_key_);
+  expect_problem(misspelt, 422, "/problems/invalid-body");
+  EXPECT_EQ(json::parse(misspelt->body)["field"], "cloud_fration");
+  auto extra = post("/v1/sites/cove/observations",
+                    "transect_id,time,chainage_m,sensor,image_id,crossings\nT1,2020-01-05T10:00:00Z,1,sentinel2a,B,2\n",
+                    "text/csv", write_key_);
+  ASSERT_EQ(extra->status, 201) << extra->body;
+  EXPECT_EQ(json::parse(extra->body)["ignored_columns"], json::array({"crossings"}));
+  // Row reasons speak of values, not of CLI options.
+  auto sensor = post("/v1/sites/cove/observations", header + "T1,2020-01-06T10:00:00Z,1,landsat42,C\n", "text/csv",
+                     write_key_);
+  expect_problem(sensor, 422, "/problems/invalid-rows");
+  EXPECT_EQ(json::parse(sensor->body)["rows"][0]["reason"].get<std::string>().find("--"), std::string::npos);
+  // Waves: the batch's columns (dir_deg optional) and units rule.
+  auto waves = post("/v1/sites/cove/waves", "time,hs_m,tp_s\n2020-01-01T00:00:00Z,1.5,9\n2020-01-01T01:00:00Z,1.5,95\n",
+                    "text/csv", write_key_);
+  expect_problem(waves, 422, "/problems/invalid-rows");
+  EXPECT_EQ(json::parse(waves->body)["rows"][0]["field"], "tp_s");
+}
+
+}  // namespace
+
+// The summary's ETag is the hash of its text: it differs between sites and
+// changes when a run changes the summary, so a revalidating dashboard sees new data.
+TEST_F(HttpService, SummaryEtagFollowsItsContent) {
+  start();
+  create_demo_site();
+  ASSERT_EQ(post("/v1/sites/cove/observations", observations_csv(30), "text/csv", write_key_)->status, 201);
+  ASSERT_EQ(post("/v1/sites/cove/water-levels", water_levels_csv(), "text/csv", write_key_)->status, 201);
+  wait_for_run(json::parse(post("/v1/sites/cove/runs", "{}", "application/json", write_key_)->body)["run_id"]);
+  const std::string first = summary_etag(client(), "cove");
+  ASSERT_FALSE(first.empty());
+  // The hash of an empty text would be the same for every site and run.
+  EXPECT_NE(first, "\"" + store::sha256_hex("").substr(0, 32) + "\"");
+  EXPECT_EQ(summary_etag(client(), "cove"), first);
+  auto same = client().Get("/v1/sites/cove/summary", httplib::Headers{{"If-None-Match", first}});
+  ASSERT_TRUE(same);
+  EXPECT_EQ(same->status, 304);
+
+  const std::string more = "transect_id,time,chainage_m,sensor,image_id\nT2,2020-01-02T12:00:00Z,190,sentinel2a,LATE\n";
+  ASSERT_EQ(post("/v1/sites/cove/observations", more, "text/csv", write_key_)->status, 201);
+  wait_for_run(json::parse(post("/v1/sites/cove/runs", "{}", "application/json", write_key_)->body)["run_id"]);
+  const std::string second = summary_etag(client(), "cove");
+  EXPECT_NE(second, first);
+  auto changed = client().Get("/v1/sites/cove/summary", httplib::Headers{{"If-None-Match", first}});
+  ASSERT_TRUE(changed);
+  EXPECT_EQ(changed->status, 200);
+}
+
+// Text is escaped once: an image id with a comma and a quote reads back as
+// uploaded from the CSV and JSON series.
+TEST_F(HttpService, SeriesTextIsEscapedOnce) {
+  start();
+  create_demo_site();
+  const std::string obs =
+      "transect_id,time,chainage_m,sensor,image_id\n"
+      "T1,2020-01-01T10:00:00Z,150,sentinel2a,\"IMG,7\"\n"
+      "T1,2020-01-01T11:00:00Z,151,sentinel2a,\"IMG\"\"8\"\n";
+  ASSERT_EQ(post("/v1/sites/cove/observations", obs, "text/csv", write_key_)->status, 201);
+  ASSERT_EQ(post("/v1/sites/cove/water-levels", water_levels_csv(), "text/csv", write_key_)->status, 201);
+  auto run = wait_for_run(json::parse(post("/v1/sites/cove/runs", "{}", "application/json", write_key_)->body)["run_id"]);
+  ASSERT_EQ(run["state"], "done") << run.dump();
+  auto csv = client().Get("/v1/sites/cove/transects/T1/series?format=csv");
+  ASSERT_TRUE(csv && csv->status == 200);
+  EXPECT_NE(csv->body.find(",\"IMG,7\","), std::string::npos) << csv->body;
+  EXPECT_NE(csv->body.find(",\"IMG\"\"8\","), std::string::npos) << csv->body;
+  EXPECT_EQ(csv->body.find("\"\"\"IMG"), std::string::npos) << csv->body;
+  auto rows = json::parse(client().Get("/v1/sites/cove/transects/T1/series")->body)["rows"];
+  ASSERT_EQ(rows.size(), 2u);
+  EXPECT_EQ(rows[0]["image_id"], "IMG,7");
+  EXPECT_EQ(rows[1]["image_id"], "IMG\"8");
+}
+
+// A service run reads the batch's run configuration: processing choices such as
+// the wave correction and the slope are set in the body, and provenance
+// records the effective configuration under the batch's key.
+TEST_F(HttpService, RunBodyCarriesTheProcessingChoices) {
+  start();
+  create_demo_site();
+  ASSERT_EQ(post("/v1/sites/cove/observations", observations_csv(20), "text/csv", write_key_)->status, 201);
+  ASSERT_EQ(post("/v1/sites/cove/water-levels", water_levels_csv(), "text/csv", write_key_)->status, 201);
+  expect_problem(post("/v1/sites/cove/runs", R"({"wave_correction":"sideways"})", "application/json", write_key_), 422,
+                 "/problems/invalid-run-options");
+  auto started = post("/v1/sites/cove/runs",
+                      R"({"wave_correction":"runup","reference_elevation_m":0.25,"slope":{"fixed":0.05}})",
+                      "application/json", write_key_);
+  ASSERT_TRUE(started && started->status == 202) << (started ? started->body : "");
+  auto run = wait_for_run(json::parse(started->body)["run_id"]);
+  ASSERT_EQ(run["state"], "done") << run.dump();
+  const auto& configuration = run["provenance"]["configuration"];
+  EXPECT_EQ(configuration["wave_correction"], "runup");
+  EXPECT_EQ(configuration["reference_elevation_m"], 0.25);
+  EXPECT_EQ(configuration["slope"]["fixed"], 0.05);
+  EXPECT_TRUE(configuration["steps"].contains("hampel"));
+  for (const char* key : {"version", "inputs", "water_levels", "steps", "rows", "started", "finished"})
+    EXPECT_TRUE(run["provenance"].contains(key)) << key;
+  const auto row = json::parse(client().Get("/v1/sites/cove/transects/T1/series")->body)["rows"][0];
+  EXPECT_EQ(row["slope"], 0.05);
+  EXPECT_EQ(row["z_ref_m"], 0.25);
+  EXPECT_NEAR(row["correction_m"].get<double>(), (row["water_level_m"].get<double>() - 0.25) / 0.05, 0.11);
+}
+
+// A site with no water levels and no tide constituents: the run fails naming
+// the reason, as the batch refuses the same inputs.
+TEST_F(HttpService, RunWithoutWaterLevelsFailsWithTheReason) {
+  start();
+  create_demo_site();
+  ASSERT_EQ(post("/v1/sites/cove/observations", observations_csv(5), "text/csv", write_key_)->status, 201);
+  auto run = wait_for_run(json::parse(post("/v1/sites/cove/runs", "{}", "application/json", write_key_)->body)["run_id"]);
+  EXPECT_EQ(run["state"], "failed");
+  EXPECT_NE(run["reason"].get<std::string>().find("no water levels"), std::string::npos) << run.dump();
+}

@@ -3,6 +3,7 @@
 
 #include <sstream>
 
+#include "server/app/steps/step_list.h"
 #include "corrections/core/errors.h"
 #include "corrections/engine/pipeline.h"
 #include "server/io/observations_csv.h"
@@ -13,6 +14,14 @@ using namespace strandline;
 
 namespace {
 
+ObservationReadOptions read_options(bool skip_invalid, const SensorTable* sensors, std::string hint = "") {
+  ObservationReadOptions options;
+  options.skip_invalid = skip_invalid;
+  options.sensors = sensors;
+  options.unknown_sensor_hint = std::move(hint);
+  return options;
+}
+
 const char* kHeader = "transect_id,time,chainage_m,sensor,image_id,cloud_fraction,georef_rmse_m\n";
 const char* kGoodRow = "T1,2019-03-04T10:00:00Z,120.5,landsat8,img1,0.1,4\n";
 
@@ -20,7 +29,7 @@ std::string observation_error(const std::string& text) {
   std::istringstream in(text);
   const SensorTable sensors = SensorTable::defaults();
   try {
-    read_observations(in, "obs.csv", {false, &sensors});
+    read_observations(in, "obs.csv", read_options(false, &sensors));
   } catch (const InputError& e) {
     return e.what();
   }
@@ -39,7 +48,7 @@ std::string water_level_error(const std::string& text) {
 
 std::string config_error(const std::string& json) {
   try {
-    Pipeline::from_config(nlohmann::json::parse(json));
+    configured_pipeline(nlohmann::json::parse(json));
   } catch (const ConfigError& e) {
     return e.what();
   }
@@ -122,12 +131,13 @@ TEST(MalformedObservations, WrongFieldCount) {
 
 TEST(MalformedObservations, DuplicateTransectImage) {
   EXPECT_EQ(observation_error(std::string(kHeader) + kGoodRow + "T1,2019-03-04T10:00:00Z,125,landsat8,img1,0.1,4\n"),
-            "obs.csv:3: image_id \"img1\": duplicate: transect T1 already has an observation from this image (data row 1)");
+            "obs.csv:3: image_id \"img1\": duplicate: transect T1 already has an observation from this image (line 2)");
 }
 
 TEST(MalformedObservations, ImageWithTwoTimes) {
   EXPECT_NE(observation_error(std::string(kHeader) + kGoodRow + "T2,2019-03-05T10:00:00Z,125,landsat8,img1,0.1,4\n")
-                .find("obs.csv:3: time \"2019-03-05T10:00:00Z\": image img1 has a different time"),
+                .find("obs.csv:3: time \"2019-03-05T10:00:00Z\": image img1 has time 2019-03-04T10:00:00Z on line 2 "
+                      "(one image, one time and one sensor)"),
             std::string::npos);
 }
 
@@ -140,7 +150,7 @@ TEST(MalformedObservations, SkipInvalidCollectsEveryBadRow) {
   std::istringstream in(std::string(kHeader) + kGoodRow + "T1,2019-13-01T00:00Z,1,landsat8,img2,,\n" +
                         "T1,2019-03-05T10:00Z,x,landsat8,img3,,\nT1,2019-03-06T10:00Z,130,landsat8,img4,,\n");
   const SensorTable sensors = SensorTable::defaults();
-  const auto f = read_observations(in, "obs.csv", {true, &sensors});
+  const auto f = read_observations(in, "obs.csv", read_options(true, &sensors));
   EXPECT_EQ(f.data_rows, 4u);
   EXPECT_EQ(f.table.size(), 2u);
   ASSERT_EQ(f.rejected.size(), 2u);
@@ -164,8 +174,15 @@ TEST(MalformedWaterLevels, LevelNotANumber) {
 }
 
 TEST(MalformedWaterLevels, LevelInMillimetres) {
+  // Units rule: the record spans more than 25 m, each value 50 m from the median.
   EXPECT_EQ(water_level_error("time,level_m\n2019-01-01T01:00Z,1200\n2019-01-01T02:00Z,1100\n"),
-            "wl.csv:2: level_m \"1200\": implausible water level (metres expected)");
+            "wl.csv:2: level_m \"1200\": 50 m from the record's median level (1150 m), more than the 25 m a gauge "
+            "record in metres spans: give levels in metres (centimetres or millimetres?)");
+}
+
+TEST(MalformedWaterLevels, LevelsOnAnotherDatumPass) {
+  // Far from 0 but a plausible tide around its median: the units rule looks at the spread.
+  EXPECT_EQ(water_level_error("time,level_m\n2019-01-01T01:00Z,101.2\n2019-01-01T02:00Z,103.9\n"), "(no error)");
 }
 
 TEST(MalformedWaterLevels, SingleSample) {

@@ -5,7 +5,7 @@
 #include <cmath>
 
 #include "corrections/engine/pipeline.h"
-#include "corrections/engine/registry.h"
+#include "server/app/steps/step_list.h"
 #include "corrections/water_level/gauge_series.h"
 
 using namespace strandline;
@@ -47,7 +47,7 @@ TEST(Pipeline, CorrectsToReferenceContour) {
   in.reference_elevation_m = 0.5;
   in.slopes.per_transect["A"] = {0.05, 0.005};
   in.slopes.all = SlopeValue{0.1, kUnknown};
-  Pipeline::defaults().run(table, in);
+  default_pipeline().run(table, in);
   for (std::size_t i = 0; i < table.size(); ++i) {
     const auto& tr = table.transects[table.transect[i]];
     const double eta = -1.0 + 2.0 * table.time_s[i] / 10000.0;
@@ -76,7 +76,7 @@ TEST(Pipeline, OutsideRecordIsFlaggedNotExtrapolated) {
   RunInputs in;
   in.water_levels = &gauge;
   in.slopes.all = SlopeValue{0.1, 0.01};
-  Pipeline::defaults().run(table, in);
+  default_pipeline().run(table, in);
   const std::size_t first = table.transects[0].begin;
   EXPECT_TRUE(has_flag(table.flags[first], Flag::no_water_level));
   EXPECT_FALSE(table.accepted(first));
@@ -92,13 +92,13 @@ TEST(Pipeline, MissingSlopeFlagsAndDefaultSlopeWarns) {
   RunInputs in;
   in.water_levels = &gauge;
   in.slopes.per_transect["A"] = {0.05, 0.005};
-  Pipeline::defaults().run(table, in);
+  default_pipeline().run(table, in);
   const std::size_t b0 = table.transects[1].begin;
   EXPECT_TRUE(has_flag(table.flags[b0], Flag::no_slope));
   EXPECT_TRUE(std::isnan(table.chainage_m[b0]));
 
   in.slopes.default_value = SlopeValue{0.08, kUnknown};
-  Pipeline::defaults().run(table, in);  // a second run starts from a clean state
+  default_pipeline().run(table, in);  // a second run starts from a clean state
   EXPECT_FALSE(has_flag(table.flags[b0], Flag::no_slope));
   EXPECT_TRUE(has_flag(table.flags[b0], Flag::default_slope));
   EXPECT_TRUE(table.accepted(b0));
@@ -111,8 +111,8 @@ TEST(Pipeline, SameResultWithOneOrManyThreads) {
   RunInputs in;
   in.water_levels = &gauge;
   in.slopes.all = SlopeValue{0.1, 0.01};
-  Pipeline::from_config({{"threads", 1}}).run(a, in);
-  Pipeline::from_config({{"threads", 4}}).run(b, in);
+  configured_pipeline({{"threads", 1}}).run(a, in);
+  configured_pipeline({{"threads", 4}}).run(b, in);
   for (std::size_t i = 0; i < a.size(); ++i) {
     EXPECT_EQ(a.chainage_m[i], b.chainage_m[i]);
     EXPECT_EQ(a.flags[i], b.flags[i]);
@@ -120,8 +120,8 @@ TEST(Pipeline, SameResultWithOneOrManyThreads) {
 }
 
 TEST(Pipeline, EffectiveConfigurationListsEveryStep) {
-  const Pipeline p = Pipeline::defaults();
-  for (const auto& e : step_registry()) EXPECT_TRUE(p.config()["steps"].contains(e.name)) << e.name;
+  const Pipeline p = default_pipeline();
+  for (const auto& e : step_list()) EXPECT_TRUE(p.config()["steps"].contains(e.name)) << e.name;
   EXPECT_EQ(p.config()["steps"]["water_level"]["max_gap_s"], 10800.0);
 }
 

@@ -1,4 +1,4 @@
-// Trend, serial correlation, t quantiles, the annual harmonic and the summary keys.
+// Trend, serial correlation, t quantiles, the annual harmonic and the summary's trend part.
 #include <gtest/gtest.h>
 
 #include <cmath>
@@ -97,20 +97,27 @@ TEST(QcSummary, TrendKeysSlopeTermAndWindow) {
     table.sigma_m[i] = 5;
     table.sigma_slope_m[i] = 3;
   }
-  const auto j = transect_summary(table, 0, SummaryOptions{});
-  ASSERT_TRUE(j["trend"].is_object());
-  EXPECT_NEAR(j["trend"]["rate_m_per_yr"].get<double>(), -1.0, 0.1);
+  const TransectSummary s = transect_summary(table, 0, SummaryOptions{});
+  ASSERT_TRUE(s.trend);
+  EXPECT_NEAR(s.trend->rate_m_per_yr, -1.0, 0.1);
   // d rate / d(1/slope) = 0.1 m/yr of water level: 0.1 * (1/0.08 - 1/0.1) = 0.25 m/yr.
-  EXPECT_NEAR(j["trend"]["slope_term_m_per_yr"].get<double>(), 0.25, 0.01);
-  const auto ci = j["trend"]["ci95_m_per_yr"];
-  const auto ci_all = j["trend"]["ci95_with_slope_m_per_yr"];
-  EXPECT_LT(ci_all[0].get<double>(), ci[0].get<double>());
-  EXPECT_GT(ci_all[1].get<double>(), ci[1].get<double>());
-  ASSERT_TRUE(j["seasonal"].is_object());
-  EXPECT_TRUE(j["cautions"].is_array());
+  ASSERT_TRUE(s.trend->slope_term);
+  EXPECT_NEAR(s.trend->slope_term->slope_term_m_per_yr, 0.25, 0.01);
+  ASSERT_TRUE(s.trend->ci95_m_per_yr);
+  ASSERT_TRUE(s.trend->slope_term->ci95_with_slope_m_per_yr);
+  const Interval ci = *s.trend->ci95_m_per_yr;
+  const Interval ci_all = *s.trend->slope_term->ci95_with_slope_m_per_yr;
+  EXPECT_LT(ci_all.low, ci.low);
+  EXPECT_GT(ci_all.high, ci.high);
+  EXPECT_TRUE(s.seasonal);
+  // Eleven years, 200 points, a known slope interval: nothing to caution about.
+  EXPECT_EQ(s.cautions, std::vector<std::string>{});
+  EXPECT_EQ(s.trend_window.n_points, 200u);
 
   SummaryOptions window;
   window.trend_from_s = table.time_s[100];
-  const auto w = transect_summary(table, 0, window);
-  EXPECT_EQ(w["trend_window"]["n_points"].get<std::size_t>(), 100u);
+  const TransectSummary w = transect_summary(table, 0, window);
+  EXPECT_EQ(w.trend_window.n_points, 100u);
+  EXPECT_EQ(w.trend_window.from_s, table.time_s[100]);
+  EXPECT_FALSE(known(w.trend_window.to_s));
 }

@@ -15,6 +15,7 @@
 
 #include <cmath>
 
+#include "server/app/steps/step_list.h"
 #include "corrections/engine/pipeline.h"
 #include "corrections/water_level/gauge_series.h"
 #include "demo_data/synthetic/synthetic_site.h"
@@ -81,7 +82,7 @@ Recovery recover(const synthetic::SiteParams& params, SiteTable& table, const sy
   in.reference_elevation_m = params.z_ref_m;
   in.slopes.estimate = true;
   in.slopes.default_value = SlopeValue{0.1, 0.03};
-  Pipeline::defaults().run(table, in);
+  default_pipeline().run(table, in);
   Recovery r;
   for (std::size_t i = 0; i + 1 < site.transects.size(); ++i) {
     const auto& truth = site.transects[i];

@@ -6,6 +6,7 @@
 
 #include <cmath>
 
+#include "server/app/steps/step_list.h"
 #include "corrections/core/errors.h"
 #include "corrections/engine/pipeline.h"
 #include "corrections/steps/slope_step.h"
@@ -53,7 +54,7 @@ Demo make_demo() {
 TEST(SlopeStep, ListedTransectsKeepTheirSlopeAndUnidentifiableWithoutDefaultGetNone) {
   Demo d = make_demo();
   d.inputs.slopes.per_transect["T001"] = {0.061, 0.004};
-  Pipeline::defaults().run(d.table, d.inputs);
+  default_pipeline().run(d.table, d.inputs);
   const auto& t1 = d.table.transects[0];
   EXPECT_EQ(t1.slope_source, SlopeSource::fixed);
   EXPECT_DOUBLE_EQ(t1.slope, 0.061);
@@ -75,8 +76,8 @@ TEST(SlopeStep, ListedTransectsKeepTheirSlopeAndUnidentifiableWithoutDefaultGetN
 
 TEST(SlopeStep, SameResultWithOneOrManyThreads) {
   Demo a = make_demo(), b = make_demo();
-  Pipeline::from_config({{"threads", 1}}).run(a.table, a.inputs);
-  Pipeline::from_config({{"threads", 3}}).run(b.table, b.inputs);
+  configured_pipeline({{"threads", 1}}).run(a.table, a.inputs);
+  configured_pipeline({{"threads", 3}}).run(b.table, b.inputs);
   for (std::size_t t = 0; t < a.table.transects.size(); ++t) {
     EXPECT_EQ(a.table.transects[t].slope_details.dump(), b.table.transects[t].slope_details.dump());
     const double x = a.table.transects[t].slope_ci95_low, y = b.table.transects[t].slope_ci95_low;
@@ -86,18 +87,18 @@ TEST(SlopeStep, SameResultWithOneOrManyThreads) {
 
 TEST(SlopeStep, ParametersAreReadStrictly) {
   try {
-    Pipeline::from_config({{"steps", {{"slope", {{"bootstrap_count", -1}}}}}});
+    configured_pipeline({{"steps", {{"slope", {{"bootstrap_count", -1}}}}}});
     FAIL() << "negative bootstrap count accepted";
   } catch (const ConfigError& e) {
     EXPECT_EQ(e.pointer, "/steps/slope/bootstrap_count");
   }
   try {
-    Pipeline::from_config({{"steps", {{"slope", {{"band_width", 1.0}}}}}});
+    configured_pipeline({{"steps", {{"slope", {{"band_width", 1.0}}}}}});
     FAIL() << "unknown key accepted";
   } catch (const ConfigError& e) {
     EXPECT_EQ(e.pointer, "/steps/slope/band_width");
   }
-  const Pipeline p = Pipeline::from_config({{"steps", {{"slope", {{"bootstrap_count", 50}, {"seed", 7}}}}}});
+  const Pipeline p = configured_pipeline({{"steps", {{"slope", {{"bootstrap_count", 50}, {"seed", 7}}}}}});
   EXPECT_EQ(p.config()["steps"]["slope"]["bootstrap_count"], 50);
   EXPECT_EQ(p.config()["steps"]["slope"]["seed"], 7);
 }
@@ -139,7 +140,7 @@ TEST(SlopeStep, WaveTermEntersTheEstimate) {
     in.waves = &waves;
     in.wave_correction = c;
     in.slopes.estimate = true;
-    Pipeline::defaults().run(table, in);
+    default_pipeline().run(table, in);
     for (std::size_t t = 0; t < 2; ++t) {
       const auto& info = table.transects[t];
       EXPECT_EQ(info.slope_details["wave_term"], c == WaveCorrection::setup ? "setup" : "runup");

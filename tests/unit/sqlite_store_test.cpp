@@ -3,6 +3,7 @@
 #include <gtest/gtest.h>
 
 #include <algorithm>
+#include <cmath>
 #include <filesystem>
 #include <set>
 #include <unistd.h>
@@ -162,13 +163,20 @@ TEST_F(StoreTest, ResultsAreVersionedByRunAndChangesSkipIdenticalResults) {
   run.scope = "all";
   const auto r1 = store_->create_run(run);
   store_->mark_run_started(r1, 2);
-  store_->finish_run(r1, {{"k", 1}}, {{0, r1, "T1", "[1]", "a\n1\n", {}, "h1"}, {0, r1, "T2", "[2]", "a\n2\n", {}, "h2"}});
+  const auto rows = [](const char* transect, double chainage_m) {
+    CleanedRow r;
+    r.transect_id = transect;
+    r.image_id = "IMG,7";
+    r.chainage_m = chainage_m;
+    return std::vector<CleanedRow>{r};
+  };
+  store_->finish_run(r1, {{"k", 1}}, {{0, r1, "T1", rows("T1", 1), {}, ""}, {0, r1, "T2", rows("T2", 2), {}, ""}});
   const auto r2 = store_->create_run(run);
-  store_->finish_run(r2, {}, {{0, r2, "T1", "[1]", "a\n1\n", {}, "h1"}, {0, r2, "T2", "[3]", "a\n3\n", {}, "h3"}});
-  EXPECT_EQ(store_->result("s1", "T2", 0, Store::SeriesText::json)->rows_json, "[3]");
-  EXPECT_EQ(store_->result("s1", "T2", r1, Store::SeriesText::json)->rows_json, "[2]");
-  // No gzip member was stored: a gzip read falls back to the identity document.
-  EXPECT_EQ(store_->result("s1", "T2", 0, Store::SeriesText::csv, Store::Encoding::gzip)->rows_csv, "a\n3\n");
+  store_->finish_run(r2, {}, {{0, r2, "T1", rows("T1", 1), {}, ""}, {0, r2, "T2", rows("T2", 3), {}, ""}});
+  EXPECT_EQ(store_->result("s1", "T2", 0, {})->rows.at(0).chainage_m, 3);
+  EXPECT_EQ(store_->result("s1", "T2", r1, {})->rows.at(0).chainage_m, 2);
+  EXPECT_EQ(store_->result("s1", "T2", r1, {})->rows.at(0).image_id, "IMG,7");
+  EXPECT_TRUE(store_->result("s1", "T2", r1, {false, false})->rows.empty());  // only what is asked is read
   EXPECT_EQ(store_->run(r1)->state, "done");
   const auto all = store_->changes("s1", 0, 100);
   ASSERT_EQ(all.size(), 3u);  // T1 and T2 of run 1, T2 of run 2 (T1 unchanged in run 2)
@@ -240,8 +248,9 @@ TEST_F(StoreTest, BatchedInsertsCountEveryRowAcrossStatementBoundaries) {
 }
 
 // Schema version 2 re-keys stored observations by interned integers, version 3
-// moves series documents to their own table: rows, results and the retraction
-// of an upload written under version 1 survive both.
+// moves series documents to their own table, version 4 turns them into typed
+// rows: rows, results and the retraction of an upload written under version 1
+// survive all three.
 TEST_F(StoreTest, MigrationsKeepStoredObservationsAndResults) {
   const std::string old_path = (dir_ / "v1.db").string();
   {
@@ -262,7 +271,12 @@ TEST_F(StoreTest, MigrationsKeepStoredObservationsAndResults) {
         "INSERT INTO runs(id, site_key, state, options, scope, input_seq, created_at, requested_by) VALUES"
         "  (1, 1, 'done', '{}', 'all', 0, '2026-01-03T00:00:00Z', 'x');"
         "INSERT INTO results(run_id, site_key, transect_id, rows_json, rows_csv, summary, sha256, changed) VALUES"
-        "  (1, 1, 'T1', '{\"rows\":[]}', 'transect_id\n', '{\"points\":3}', 'h1', 1);");
+        "  (1, 1, 'T1', '{\"rows\":[{\"transect_id\":\"T1\",\"time\":\"2020-09-13T12:26:40Z\",\"sensor\":"
+        "\"landsat8\",\"image_id\":\"A\",\"chainage_raw_m\":100.0,\"water_level_m\":0.5,\"setup_m\":null,"
+        "\"runup_m\":null,\"wave_level_m\":null,\"z_ref_m\":0.0,\"slope\":0.1,\"correction_m\":5.0,\"chainage_m\":"
+        "105.0,\"sigma_m\":12.0,\"sigma_sensor_m\":11.0,\"sigma_water_level_m\":1.0,\"sigma_slope_m\":null,"
+        "\"sigma_wave_m\":null,\"cloud_fraction\":0.1,\"georef_rmse_m\":null,\"flags\":[\"cloudy_image\"],"
+        "\"accepted\":false}]}', 'transect_id\n', '{\"points\":3}', 'h1', 1);");
   }
   auto migrated = open_sqlite_store(old_path);
   auto rows = migrated->live_observations("old", {"T1"});
@@ -278,14 +292,19 @@ TEST_F(StoreTest, MigrationsKeepStoredObservationsAndResults) {
             1);
   EXPECT_THROW(migrated->add_observations("old", meta(1), {{2, "T1", "A", "landsat8", 1.6e9, 99, 0.1, kUnknown}}),
                ConflictError);
-  // The old result keeps both documents; without a stored gzip member a gzip
-  // read gets the identity document.
-  const auto json = migrated->result("old", "T1", 0, Store::SeriesText::json, Store::Encoding::gzip);
-  ASSERT_TRUE(json.has_value());
-  EXPECT_EQ(json->rows_json, "{\"rows\":[]}");
-  EXPECT_TRUE(json->rows_json_gzip.empty());
-  EXPECT_EQ(json->summary["points"], 3);
-  EXPECT_EQ(migrated->result("old", "T1", 1, Store::SeriesText::csv)->rows_csv, "transect_id\n");
+  // Version 4 turns the stored series document into typed rows, every value kept.
+  const auto result = migrated->result("old", "T1", 0, {});
+  ASSERT_TRUE(result.has_value());
+  ASSERT_EQ(result->rows.size(), 1u);
+  const CleanedRow& row = result->rows[0];
+  EXPECT_EQ(row.image_id, "A");
+  EXPECT_DOUBLE_EQ(row.time_s, 1.6e9);
+  EXPECT_DOUBLE_EQ(row.chainage_m, 105.0);
+  EXPECT_DOUBLE_EQ(row.correction_m, 5.0);
+  EXPECT_TRUE(std::isnan(row.setup_m));
+  EXPECT_EQ(row.flags, flag_bit(Flag::cloudy_image));
+  EXPECT_FALSE(row.accepted);
+  EXPECT_EQ(result->summary["points"], 3);
   ASSERT_TRUE(migrated->retract_upload("old", 1, {"", "alice", "wrong scene"}));
   rows = migrated->live_observations("old", {});
   ASSERT_EQ(rows.size(), 1u);

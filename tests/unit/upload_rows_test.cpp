@@ -6,10 +6,10 @@
 #include <set>
 #include <string>
 
-#include "server/http/upload_rows.h"
+#include "server/app/upload_rows.h"
 
 using namespace strandline;
-using namespace strandline::http;
+using namespace strandline::app;
 
 namespace {
 
@@ -64,16 +64,23 @@ TEST(ObservationUpload, LargeBodyWithCrLfAndNoFinalNewline) {
   expect_exact(body, rows, bad);
 }
 
-// A quoted field may hold a line break, so a body with quotes is never split.
+// A quoted field may hold a line break, so a body with quotes is never split:
+// the record spanning two lines is one row (refused whole: an id holds no
+// control character), named by the line it starts on.
 TEST(ObservationUpload, QuotedLargeBodyIsParsedWhole) {
   const int rows = 200000;
   std::string body = body_of(rows, {});
   body += "T1,2020-01-01T00:00:00Z,101,sentinel2a,\"IMG\nBROKEN\",0.05,4.0\n";
+  body += "T1,2020-01-01T00:00:01Z,102,sentinel2a,\"IMG,LAST\",0.05,4.0\n";
   const auto parsed = parse_observation_upload(body, BodyFormat::csv, kTransects, SensorTable::defaults());
-  EXPECT_EQ(parsed.received, rows + 1);
+  EXPECT_EQ(parsed.received, rows + 2);
   ASSERT_EQ(parsed.rows.size(), static_cast<std::size_t>(rows + 1));
-  EXPECT_EQ(parsed.rows.back().image_id, "IMG\nBROKEN");
-  EXPECT_EQ(parsed.rows.back().line, rows + 2);
+  EXPECT_EQ(parsed.rows.back().image_id, "IMG,LAST");
+  EXPECT_EQ(parsed.rows.back().line, rows + 4);
+  ASSERT_EQ(parsed.invalid.size(), 1u);
+  EXPECT_EQ(parsed.invalid[0].line, rows + 2);
+  EXPECT_EQ(parsed.invalid[0].field, "image_id");
+  EXPECT_EQ(parsed.invalid[0].value, "IMG\\x0ABROKEN");
 }
 
 }  // namespace

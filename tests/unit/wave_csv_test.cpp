@@ -37,6 +37,12 @@ TEST(WaveCsv, ReadsDeepWaterRecord) {
   EXPECT_EQ(r.describe()["record_depth"], "deep water");
 }
 
+TEST(WaveCsv, DirectionColumnIsOptional) {
+  const WaveRecord r = parse("time,hs_m,tp_s\n2021-01-01T00:00:00Z,1.5,10\n");
+  ASSERT_EQ(r.samples().size(), 1u);
+  EXPECT_FALSE(known(r.samples()[0].dir_deg));
+}
+
 TEST(WaveCsv, ReadsNearshoreRecordWithDepth) {
   const WaveRecord r = parse(
       "time,hs_m,tp_s,dir_deg,depth_m\n"
@@ -56,11 +62,19 @@ TEST(WaveCsv, ErrorsNameFileLineAndField) {
             "waves.csv:2: tp_s \"0.5\": outside [1, 40] s");
   EXPECT_EQ(error_of("time,hs_m,tp_s,dir_deg\n2021-01-01T00:00:00Z,1,10,400\n"),
             "waves.csv:2: dir_deg \"400\": outside [0, 360] degrees");
-  EXPECT_EQ(error_of("time,hs_m,tp_s,dir_deg,depth_m\n2021-01-01T00:00:00Z,1,10,270,\n"),
-            "waves.csv:2: depth_m \"\": empty: expected a number");
+  // One record is taken at one place: a depth on every row or on none.
+  EXPECT_EQ(error_of("time,hs_m,tp_s,dir_deg,depth_m\n2021-01-01T00:00:00Z,1,10,270,12\n"
+                     "2021-01-01T01:00:00Z,1,10,270,\n"),
+            "waves.csv:3: depth_m \"\": empty, but line 2 has a depth: one wave record has a depth on every row "
+            "(nearshore) or on none (deep water)");
   EXPECT_EQ(error_of("time,hs_m,tp_s,dir_deg,depth_m\n2021-01-01T00:00:00Z,1,10,270,0\n"),
-            "waves.csv:2: depth_m \"0\": must be positive (the depth of the record)");
-  EXPECT_NE(error_of("time,hs_m,tp_s\n2021-01-01T00:00:00Z,1,10\n").find("missing required column \"dir_deg\""),
+            "waves.csv:2: depth_m \"0\": must be positive (the depth of the record; empty for deep water)");
+  EXPECT_NE(error_of("time,hs_m,dir_deg\n2021-01-01T00:00:00Z,1,10\n").find("missing required column \"tp_s\""),
+            std::string::npos);
+  // Units: a height in centimetres or a period in tenths of a second says so.
+  EXPECT_NE(error_of("time,hs_m,tp_s\n2021-01-01T00:00:00Z,145,10\n").find("hs_m \"145\": outside [0, 30] m: give"),
+            std::string::npos);
+  EXPECT_NE(error_of("time,hs_m,tp_s\n2021-01-01T00:00:00Z,1.4,95\n").find("tp_s \"95\": outside [1, 40] s: give"),
             std::string::npos);
   EXPECT_NE(error_of("time,hs_m,tp_s,dir_deg,hm0\n2021-01-01T00:00:00Z,1,10,270,1\n").find("unknown column \"hm0\""),
             std::string::npos);

@@ -9,6 +9,7 @@
 
 #include <gtest/gtest.h>
 
+#include "server/app/steps/step_list.h"
 #include "corrections/core/errors.h"
 #include "corrections/engine/pipeline.h"
 #include "corrections/steps/correct_step.h"
@@ -245,7 +246,7 @@ namespace strandline {
 namespace {
 
 TEST(WaveSteps, RegisteredAroundTheSlopeStep) {
-  const auto names = Pipeline::defaults().step_names();
+  const auto names = default_pipeline().step_names();
   auto position = [&](const std::string& n) { return std::find(names.begin(), names.end(), n) - names.begin(); };
   ASSERT_LT(position("wave_conditions"), static_cast<long>(names.size()));
   ASSERT_LT(position("wave_terms"), static_cast<long>(names.size()));
@@ -257,18 +258,18 @@ TEST(WaveSteps, RegisteredAroundTheSlopeStep) {
 
 TEST(WaveSteps, ParametersAreCheckedWithTheirPointer) {
   try {
-    Pipeline::from_config({{"steps", {{"wave_terms", {{"runup_sigma_m", -1}}}}}});
+    configured_pipeline({{"steps", {{"wave_terms", {{"runup_sigma_m", -1}}}}}});
     FAIL() << "negative sigma accepted";
   } catch (const ConfigError& e) {
     EXPECT_EQ(e.pointer, "/steps/wave_terms/runup_sigma_m");
   }
   try {
-    Pipeline::from_config({{"steps", {{"wave_conditions", {{"max_gap_hours", 3}}}}}});
+    configured_pipeline({{"steps", {{"wave_conditions", {{"max_gap_hours", 3}}}}}});
     FAIL() << "unknown key accepted";
   } catch (const ConfigError& e) {
     EXPECT_EQ(e.pointer, "/steps/wave_conditions/max_gap_hours");
   }
-  const Pipeline p = Pipeline::from_config({{"steps", {{"wave_conditions", {{"max_gap_s", 7200}}}}}});
+  const Pipeline p = configured_pipeline({{"steps", {{"wave_conditions", {{"max_gap_s", 7200}}}}}});
   EXPECT_EQ(p.config()["steps"]["wave_conditions"]["max_gap_s"], 7200.0);
 }
 

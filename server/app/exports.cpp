@@ -1,0 +1,88 @@
+#include "server/app/exports.h"
+
+#include <iostream>
+#include <memory>
+#include <unordered_map>
+
+#include "corrections/core/csv_reader.h"
+#include "server/geo/plain_table_io.h"
+#include "server/geo/result_writer.h"
+#include "server/geo/transect_reader.h"
+#include "server/io/atomic_file.h"
+
+namespace strandline::app {
+
+geo::TransectSet attach_transect_geometry(const std::string& path, SiteTable& table) {
+  geo::TransectSet set = geo::read_transects(path, {});
+  std::unordered_map<std::string, const TransectGeometry*> by_id;
+  for (const auto& t : set.transects) by_id.emplace(t.id, &t.geometry);
+  std::size_t missing = 0;
+  for (TransectInfo& t : table.transects) {
+    auto it = by_id.find(t.id);
+    if (it == by_id.end()) ++missing;
+    else t.geometry = *it->second;
+  }
+  std::cerr << "work CRS: " << set.crs.name << (set.crs.authority.empty() ? "" : " (" + set.crs.authority + ")")
+            << " - " << set.crs.choice << "\n";
+  if (missing) std::cerr << "warning: " << missing << " transects of the observations are not in " << path << "\n";
+  return set;
+}
+
+std::vector<geo::Cell> point_cells(const std::vector<CellValue>& values, const std::vector<ColumnSpec>& columns) {
+  std::vector<geo::Cell> cells(columns.size());
+  for (std::size_t c = 0; c < columns.size(); ++c) {
+    const std::string text = format_cell(values[c], columns[c]);
+    if (text.empty()) continue;  // unknown: null
+    if (columns[c].kind == ColumnSpec::Kind::text) cells[c] = text;
+    else cells[c] = parse_number(text);  // the CSV's rounding
+  }
+  return cells;
+}
+
+void append_result_points(geo::PlainTable& points, const std::vector<CleanedRow>& rows) {
+  const auto& columns = cleaned_columns();
+  if (points.columns.empty())
+    for (const auto& c : columns) points.columns.push_back(c.name);
+  std::vector<CellValue> values;
+  for (const auto& r : rows) {
+    cleaned_values(r, values);
+    points.rows.push_back(point_cells(values, columns));
+  }
+}
+
+void write_cleaned_geodata(const CleanedRowStream& rows, const geo::TransectSet& transects,
+                           const nlohmann::json& summary, const std::string& out_path,
+                           const std::string& rejected_path) {
+  const auto cols = rows.columns();
+  geo::PlainTable points;
+  for (const auto& c : cols) points.columns.push_back(c.name);
+  std::unique_ptr<AtomicFile> rejected;
+  if (!rejected_path.empty()) {
+    rejected = std::make_unique<AtomicFile>(rejected_path);
+    auto& r = rejected->stream();
+    r << "line,field,value,reason";
+    for (const auto& h : rows.input_header()) r << ',' << csv_escape(h);
+    r << '\n';
+  }
+  rows.stream(
+      [&](std::size_t, const std::vector<CellValue>& values) { points.rows.push_back(point_cells(values, cols)); },
+      [&](const std::vector<std::string>& fields, const RowProblem& p) {
+        if (!rejected) return;
+        auto& r = rejected->stream();
+        r << p.line << ',' << csv_escape(p.field) << ',' << csv_escape(p.value) << ',' << csv_escape(p.reason);
+        for (const auto& f : fields) r << ',' << csv_escape(f);
+        r << '\n';
+      });
+  const geo::PlainTable per_transect = geo::summary_plain_table(summary, "summary");
+  geo::GeoLayers layers;
+  layers.points = &points;
+  layers.transect_summary = &per_transect;
+  const auto report = geo::write_geo_layers(out_path, transects, layers);
+  if (rejected) rejected->commit();
+  std::cerr << "geodata: " << report.points << " points (" << report.points_without_geometry
+            << " without geometry), " << report.transects << " transects in";
+  for (const auto& f : report.files) std::cerr << " " << f;
+  std::cerr << "\n";
+}
+
+}  // namespace strandline::app

@@ -1,0 +1,101 @@
+#include "server/app/run_manager.h"
+
+#include <sys/resource.h>
+#include <sys/syscall.h>
+#include <unistd.h>
+
+#include <exception>
+
+#include "server/app/run_executor.h"
+
+namespace strandline::app {
+
+RunManager::RunManager(store::Store& store, RunEndedFn on_run_ended, unsigned workers, std::size_t max_queued)
+    : store_(store), on_run_ended_(std::move(on_run_ended)), max_queued_(max_queued) {
+  for (unsigned i = 0; i < std::max(1u, workers); ++i) threads_.emplace_back([this] { work(); });
+}
+
+RunManager::~RunManager() {
+  {
+    std::lock_guard lock(mutex_);
+    stopping_ = true;
+  }
+  wake_.notify_all();
+  for (auto& t : threads_) t.join();
+}
+
+bool RunManager::enqueue(std::int64_t run_id) {
+  {
+    std::lock_guard lock(mutex_);
+    if (queue_.size() >= max_queued_) return false;
+    queue_.push_back(run_id);
+  }
+  wake_.notify_one();
+  return true;
+}
+
+std::optional<RunProgress> RunManager::progress(std::int64_t run_id) const {
+  std::lock_guard lock(mutex_);
+  auto it = running_.find(run_id);
+  if (it == running_.end()) return std::nullopt;
+  return it->second;
+}
+
+std::size_t RunManager::active() const {
+  std::lock_guard lock(mutex_);
+  return running_.size() + queue_.size();
+}
+
+void RunManager::wait_idle() {
+  std::unique_lock lock(mutex_);
+  idle_.wait(lock, [&] { return queue_.empty() && running_.empty(); });
+}
+
+void RunManager::work() {
+  // Linux keeps a nice value per thread; threads the pipeline starts inherit it.
+  setpriority(PRIO_PROCESS, static_cast<id_t>(syscall(SYS_gettid)), 10);
+  for (;;) {
+    std::int64_t run_id = 0;
+    {
+      std::unique_lock lock(mutex_);
+      wake_.wait(lock, [&] { return stopping_ || !queue_.empty(); });
+      if (stopping_) return;
+      run_id = queue_.front();
+      queue_.pop_front();
+      running_[run_id] = {};
+    }
+    execute(run_id);
+    {
+      std::lock_guard lock(mutex_);
+      running_.erase(run_id);
+    }
+    idle_.notify_all();
+  }
+}
+
+void RunManager::execute(std::int64_t run_id) {
+  try {
+    const auto run = store_.run(run_id);
+    if (!run) return;
+    const auto transects = transects_in_scope(store_, *run);
+    store_.mark_run_started(run_id, static_cast<std::int64_t>(transects.size()));
+    {
+      std::lock_guard lock(mutex_);
+      running_[run_id].total = static_cast<std::int64_t>(transects.size());
+    }
+    auto output = execute_run(store_, *run, transects, [&](std::size_t done, std::size_t total) {
+      std::lock_guard lock(mutex_);
+      running_[run_id] = {static_cast<std::int64_t>(done), static_cast<std::int64_t>(total)};
+    });
+    store_.finish_run(run_id, output.provenance, output.results);
+    if (on_run_ended_) on_run_ended_("done");
+  } catch (const std::exception& e) {
+    try {
+      store_.mark_run_failed(run_id, e.what());
+    } catch (...) {
+    }
+    if (on_run_ended_) on_run_ended_("failed");
+  }
+}
+
+}  // namespace strandline::app

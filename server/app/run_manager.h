@@ -1,0 +1,56 @@
+// Background runs: a bounded queue served by a few worker threads at lower
+// CPU priority (nice +10), so request handlers stay responsive while a run
+// computes. Progress lives in memory while a run is active; states and results
+// go to the store.
+#pragma once
+
+#include <condition_variable>
+#include <cstdint>
+#include <deque>
+#include <functional>
+#include <map>
+#include <mutex>
+#include <optional>
+#include <thread>
+#include <vector>
+
+#include "server/store/store.h"
+
+namespace strandline::app {
+
+struct RunProgress {
+  std::int64_t done = 0;
+  std::int64_t total = 0;
+};
+
+class RunManager {
+ public:
+  // Told of every run that ends, with its final state ("done" or "failed").
+  using RunEndedFn = std::function<void(const std::string& state)>;
+
+  RunManager(store::Store& store, RunEndedFn on_run_ended, unsigned workers, std::size_t max_queued);
+  ~RunManager();  // finishes the active runs, leaves queued ones for fail_interrupted_runs
+
+  // False when the queue is full (the caller answers 503).
+  bool enqueue(std::int64_t run_id);
+  std::optional<RunProgress> progress(std::int64_t run_id) const;
+  std::size_t active() const;
+  // Blocks until no run is queued or running (tests and `serve --demo`).
+  void wait_idle();
+
+ private:
+  void work();
+  void execute(std::int64_t run_id);
+
+  store::Store& store_;
+  RunEndedFn on_run_ended_;
+  std::size_t max_queued_;
+  mutable std::mutex mutex_;
+  std::condition_variable wake_, idle_;
+  std::deque<std::int64_t> queue_;
+  std::map<std::int64_t, RunProgress> running_;
+  bool stopping_ = false;
+  std::vector<std::thread> threads_;
+};
+
+}  // namespace strandline::app

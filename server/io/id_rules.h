@@ -1,0 +1,22 @@
+// Identifiers of the data (transect and image ids): one rule for every input
+// and both faces. An id is text a person typed or a program wrote: 1 to 128
+// bytes of valid UTF-8 without control characters; a transect id also names a
+// URL path segment of the service, so it holds no "/".
+#pragma once
+
+#include <optional>
+#include <string>
+#include <string_view>
+
+namespace strandline {
+
+inline constexpr std::size_t kMaxIdBytes = 128;
+
+// Why `id` is not a valid identifier ("transect id", "image id" in `what`), or nothing.
+std::optional<std::string> id_problem(std::string_view id, std::string_view what, bool names_a_path = false);
+
+// `text` with every byte that is not valid UTF-8, and every control character,
+// written as \xNN: safe to show in a message, a JSON reply or a log.
+std::string printable_text(std::string_view text);
+
+}  // namespace strandline
