@@ -56,29 +56,16 @@ void write_cleaned_geodata(const CleanedRowStream& rows, const geo::TransectSet&
   const auto cols = rows.columns();
   geo::PlainTable points;
   for (const auto& c : cols) points.columns.push_back(c.name);
-  std::unique_ptr<AtomicFile> rejected;
-  if (!rejected_path.empty()) {
-    rejected = std::make_unique<AtomicFile>(rejected_path);
-    auto& r = rejected->stream();
-    r << "line,field,value,reason";
-    for (const auto& h : rows.input_header()) r << ',' << csv_escape(h);
-    r << '\n';
-  }
+  RejectedRowsFile rejected(rejected_path, rows.input_header());
   rows.stream(
       [&](std::size_t, const std::vector<CellValue>& values) { points.rows.push_back(point_cells(values, cols)); },
-      [&](const std::vector<std::string>& fields, const RowProblem& p) {
-        if (!rejected) return;
-        auto& r = rejected->stream();
-        r << p.line << ',' << csv_escape(p.field) << ',' << csv_escape(p.value) << ',' << csv_escape(p.reason);
-        for (const auto& f : fields) r << ',' << csv_escape(f);
-        r << '\n';
-      });
+      [&](const std::vector<std::string>& fields, const RowProblem& p) { rejected.add(fields, p); });
   const geo::PlainTable per_transect = geo::summary_plain_table(summary, "summary");
   geo::GeoLayers layers;
   layers.points = &points;
   layers.transect_summary = &per_transect;
   const auto report = geo::write_geo_layers(out_path, transects, layers);
-  if (rejected) rejected->commit();
+  rejected.commit();
   std::cerr << "geodata: " << report.points << " points (" << report.points_without_geometry
             << " without geometry), " << report.transects << " transects in";
   for (const auto& f : report.files) std::cerr << " " << f;

@@ -21,7 +21,7 @@ struct WorkCrs {
   std::string definition;  // WKT2, readable by GDAL and PROJ
   std::string name;        // e.g. "WGS 84 / UTM zone 31N"
   std::string authority;   // e.g. "EPSG:32631"; empty when the CRS has no code
-  std::string choice;      // why this CRS: "transects' own CRS", "--crs", "UTM zone of ..."
+  std::string choice;      // why this CRS: "transects' own CRS", "the work CRS given", "UTM zone of ..."
 };
 
 struct GeoTransect {

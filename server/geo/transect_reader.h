@@ -16,7 +16,7 @@ struct TransectReadOptions {
   std::string id_field = "transect_id";
   std::string azimuth_field = "azimuth_deg";  // points only: degrees clockwise from grid north
   std::string length_field = "length_m";      // points only
-  std::optional<std::string> crs;             // --crs: work CRS when the layer is not projected
+  std::optional<std::string> crs;             // the work CRS when the layer is not projected
   // Interior vertices of a line may stray this far from the origin-end chord;
   // a transect is one straight line.
   double straightness_tolerance_m = 1.0;

@@ -35,26 +35,26 @@ WorkCrs choose_work_crs(const CrsInfo& layer_crs, const std::optional<std::strin
                         const std::vector<XY>& points, const std::string& label) {
   if (layer_crs.projected) {
     std::string choice = "the CRS of " + label + " (projected)";
-    if (crs_option) choice += "; --crs not needed and not used";
+    if (crs_option) choice += "; the work CRS given was not needed and not used";
     return from_info(layer_crs, choice);
   }
   if (crs_option) {
-    CrsInfo given = parse_crs(*crs_option, "--crs");
+    CrsInfo given = parse_crs(*crs_option, "work CRS");
     if (!given.projected)
-      throw InputError("--crs \"" + *crs_option + "\" (" + given.name +
+      throw InputError("work CRS \"" + *crs_option + "\" (" + given.name +
                        ") is not a projected CRS; chainages need metres");
-    return from_info(given, "--crs (" + label + " is not projected)");
+    return from_info(given, "the work CRS given (" + label + " is not projected)");
   }
   if (!layer_crs.geographic)
     throw InputError(label + ": CRS \"" + layer_crs.name +
-                     "\" is neither projected nor geographic; give a projected work CRS with --crs");
+                     "\" is neither projected nor geographic; give a projected work CRS");
   const XY c = lon_lat_centroid(layer_crs, points, label);
   const std::string authority = utm_authority_for(c.x, c.y);
   char where[96];
   std::snprintf(where, sizeof where, "centroid lon %.5f, lat %.5f", c.x, c.y);
   CrsInfo utm = parse_crs(authority, "UTM zone");
   return from_info(utm, "UTM zone of the " + std::string(where) + " of " + label +
-                            " (not projected, no --crs)");
+                            " (not projected, no work CRS given)");
 }
 
 }  // namespace strandline::geo

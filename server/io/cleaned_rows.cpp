@@ -170,20 +170,36 @@ void CleanedRowStream::stream(const RowFn& on_row, const RejectedFn& on_rejected
   }
 }
 
+RejectedRowsFile::RejectedRowsFile(const std::string& path, const std::vector<std::string>& input_header) {
+  if (path.empty()) return;
+  file_ = std::make_unique<AtomicFile>(path);
+  auto& r = file_->stream();
+  r << "line,field,value,reason";
+  for (const auto& h : input_header) r << ',' << csv_escape(h);
+  r << '\n';
+}
+
+RejectedRowsFile::~RejectedRowsFile() = default;
+
+void RejectedRowsFile::add(const std::vector<std::string>& input_fields, const RowProblem& p) {
+  if (!file_) return;
+  auto& r = file_->stream();
+  r << p.line << ',' << csv_escape(p.field) << ',' << csv_escape(p.value) << ',' << csv_escape(p.reason);
+  for (const auto& f : input_fields) r << ',' << csv_escape(f);
+  r << '\n';
+}
+
+void RejectedRowsFile::commit() {
+  if (file_) file_->commit();
+}
+
 void write_cleaned_csv(const CleanedRowStream& rows, const std::string& out_path, const std::string& rejected_path) {
   const auto cols = rows.columns();
   AtomicFile out(out_path);
   auto& o = out.stream();
   for (std::size_t c = 0; c < cols.size(); ++c) o << (c ? "," : "") << csv_escape(cols[c].name);
   o << '\n';
-  std::unique_ptr<AtomicFile> rejected;
-  if (!rejected_path.empty()) {
-    rejected = std::make_unique<AtomicFile>(rejected_path);
-    auto& r = rejected->stream();
-    r << "line,field,value,reason";
-    for (const auto& h : rows.input_header()) r << ',' << csv_escape(h);
-    r << '\n';
-  }
+  RejectedRowsFile rejected(rejected_path, rows.input_header());
   std::string line;
   rows.stream(
       [&](std::size_t, const std::vector<CellValue>& values) {
@@ -191,15 +207,9 @@ void write_cleaned_csv(const CleanedRowStream& rows, const std::string& out_path
         append_csv_record(line, values, cols);
         o << line;
       },
-      [&](const std::vector<std::string>& fields, const RowProblem& p) {
-        if (!rejected) return;
-        auto& r = rejected->stream();
-        r << p.line << ',' << csv_escape(p.field) << ',' << csv_escape(p.value) << ',' << csv_escape(p.reason);
-        for (const auto& f : fields) r << ',' << csv_escape(f);
-        r << '\n';
-      });
+      [&](const std::vector<std::string>& fields, const RowProblem& p) { rejected.add(fields, p); });
   out.commit();
-  if (rejected) rejected->commit();
+  rejected.commit();
 }
 
 }  // namespace strandline

@@ -6,6 +6,7 @@
 
 #include <cstdint>
 #include <functional>
+#include <memory>
 #include <string>
 #include <variant>
 #include <vector>
@@ -14,6 +15,7 @@
 
 #include "corrections/core/cleaned_row.h"
 #include "corrections/core/site_table.h"
+#include "server/io/atomic_file.h"
 #include "server/io/observations_csv.h"
 
 namespace strandline {
@@ -67,6 +69,19 @@ class CleanedRowStream {
   const ObservationFile& observations_;
   const SiteTable& table_;
   std::vector<std::int64_t> table_row_of_input_;  // -1 for rejected rows
+};
+
+// The rejected-rows file of a batch run (`line,field,value,reason` followed by
+// the input's fields), written atomically; no file when the path is empty.
+class RejectedRowsFile {
+ public:
+  RejectedRowsFile(const std::string& path, const std::vector<std::string>& input_header);
+  ~RejectedRowsFile();
+  void add(const std::vector<std::string>& input_fields, const RowProblem& problem);
+  void commit();
+
+ private:
+  std::unique_ptr<AtomicFile> file_;
 };
 
 // Writes cleaned.csv (every valid row) and, when `rejected_path` is not empty,

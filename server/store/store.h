@@ -31,7 +31,7 @@ struct Site {
   std::string crs;                    // e.g. "EPSG:32631": the work CRS of transect geometry
   double reference_elevation_m = 0;  // z_ref on the site datum
   double default_slope = kUnknown;   // tan(beta), unknown when none
-  nlohmann::json processing_defaults = nlohmann::json::object();  // a batch --config object
+  nlohmann::json processing_defaults = nlohmann::json::object();  // a run configuration object
   std::string created_at;
 };
 

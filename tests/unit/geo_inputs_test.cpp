@@ -156,9 +156,9 @@ TEST_F(GeoInputs, NonProjectedCrsOptionRefused) {
   const auto p = geojson("t.geojson", line("\"transect_id\":\"A\"", "[3.1,45.0],[3.1,44.996]"));
   TransectReadOptions o;
   o.crs = "EPSG:4326";
-  expect_input_error([&] { read_transects(p, o); }, {"--crs", "not a projected CRS"});
+  expect_input_error([&] { read_transects(p, o); }, {"work CRS", "not a projected CRS"});
   o.crs = "no such crs";
-  expect_input_error([&] { read_transects(p, o); }, {"--crs", "not a coordinate reference system"});
+  expect_input_error([&] { read_transects(p, o); }, {"work CRS", "not a coordinate reference system"});
 }
 
 TEST_F(GeoInputs, LayerWithoutCrsRefused) {
