@@ -1,6 +1,9 @@
 #include "server/cli/batch_inputs.h"
 
+#include <cmath>
+#include <cstdio>
 #include <fstream>
+#include <optional>
 
 #include "corrections/core/errors.h"
 #include "corrections/core/time_utc.h"
@@ -29,15 +32,41 @@ void record_file(app::RunMaterial& material, const std::string& role, const std:
   material.inputs.push_back({{"role", role}, {"path", path}, {"sha256", sha256_hex_of_file(path)}});
 }
 
+// A slope written as a percentage or a ratio is the commonest slip: name the
+// tan(beta) it stands for instead of a bare "not a number".
+void refuse_slope_notation(const std::string& name, const std::string& text) {
+  std::optional<double> meant;
+  try {
+    if (!text.empty() && text.back() == '%') {
+      meant = parse_number(text.substr(0, text.size() - 1)) / 100.0;
+    } else if (auto colon = text.find(':'); colon != std::string::npos) {
+      meant = parse_number(text.substr(0, colon)) / parse_number(text.substr(colon + 1));
+    }
+  } catch (const FieldError&) {
+  }
+  if (!text.empty() && (text.back() == '%' || text.find(':') != std::string::npos)) {
+    std::string hint = "give tan(beta): ";
+    if (meant && std::isfinite(*meant)) {
+      char value[32];
+      std::snprintf(value, sizeof value, "%.3g", *meant);
+      hint += text + " is " + value;
+    } else {
+      hint += "8% is 0.08, 1:12 is 0.0833";
+    }
+    throw UsageError("option --" + name + " \"" + text + "\": " + hint);
+  }
+}
+
 // A slope option's value, checked with the option's name in the message.
-double slope_option(Args& args, const std::string& name) {
+double slope_option(const Args& args, const std::string& name) {
   const std::string text = args.require(name);
+  refuse_slope_notation(name, text);
   const double v = *args.number(name);
   if (auto why = slope_problem(v)) throw UsageError("option --" + name + " \"" + text + "\": " + *why);
   return v;
 }
 
-double sigma_option(Args& args, const std::string& name) {
+double sigma_option(const Args& args, const std::string& name) {
   const double v = *args.number(name);
   if (v < 0) throw UsageError("option --" + name + ": must not be negative");
   return v;
@@ -62,7 +91,7 @@ nlohmann::json slope_range_option(const std::string& text) {
 
 // Command-line options written into the run configuration: they override the
 // same keys of a --config file.
-void apply_options(Args& args, const BatchOptions& options, nlohmann::json& config) {
+void apply_options(const Args& args, const BatchOptions& options, nlohmann::json& config) {
   if (!config.is_object()) throw ConfigError("", "expected a JSON object");
   if (args.get("reference-elevation")) config["reference_elevation_m"] = *args.number("reference-elevation");
   nlohmann::json& slope = config["slope"];
@@ -77,7 +106,7 @@ void apply_options(Args& args, const BatchOptions& options, nlohmann::json& conf
   if (slope_text && !slope_auto) {
     slope["fixed"] = slope_option(args, "slope");
     if (args.get("slope-sigma")) slope["fixed_sigma"] = sigma_option(args, "slope-sigma");
-  } else if (args.get("slope-sigma")) {
+  } else if (!options.estimate_slopes && args.get("slope-sigma")) {
     throw UsageError("option --slope-sigma needs --slope VALUE");
   }
   if (args.get("default-slope")) {
@@ -89,14 +118,15 @@ void apply_options(Args& args, const BatchOptions& options, nlohmann::json& conf
   if (slope.empty()) config.erase("slope");
   if (options.trend_window) {
     for (const char* name : {"trend-from", "trend-to"}) {
-      const auto text = args.get(name);
-      if (!text) continue;
+      const auto given = args.get(name);
+      if (!given) continue;
+      const std::string text = expand_date_only(*given);
       try {
-        parse_time_utc(*text);
+        parse_time_utc(text);
       } catch (const FieldError& e) {
-        throw UsageError(std::string("--") + name + " \"" + *text + "\": " + e.what());
+        throw UsageError(std::string("--") + name + " \"" + *given + "\": " + e.what());
       }
-      config["trend_window"][name == std::string("trend-from") ? "from" : "to"] = *text;
+      config["trend_window"][name == std::string("trend-from") ? "from" : "to"] = text;
     }
   }
   if (auto mode = args.get("wave-correction")) {
@@ -107,7 +137,7 @@ void apply_options(Args& args, const BatchOptions& options, nlohmann::json& conf
   }
 }
 
-void read_water_level_inputs(Args& args, app::RunMaterial& material) {
+void read_water_level_inputs(const Args& args, app::RunMaterial& material) {
   if (auto path = args.get("water-levels")) {
     const GaugeSeries gauge = read_water_levels_file(*path, kUnknown);
     material.gauge_times_s = gauge.times();
@@ -123,7 +153,7 @@ void read_water_level_inputs(Args& args, app::RunMaterial& material) {
     throw UsageError("no water levels: give --water-levels FILE and/or --tide-constituents FILE");
 }
 
-void read_slope_inputs(Args& args, bool fixed_slope, app::RunMaterial& material) {
+void read_slope_inputs(const Args& args, bool fixed_slope, app::RunMaterial& material) {
   if (auto path = args.get("slopes")) {
     if (fixed_slope)
       throw UsageError("give either --slope VALUE (one slope for every transect) or --slopes FILE, not both");
@@ -145,28 +175,43 @@ void read_slope_inputs(Args& args, bool fixed_slope, app::RunMaterial& material)
 
 }  // namespace
 
-std::string batch_options_help() {
-  return "  --observations FILE        raw observations CSV (transect_id,time,chainage_m,sensor,image_id[,...])\n"
-         "  --water-levels FILE        water-level record CSV (time,level_m) on the site datum\n"
-         "  --tide-constituents FILE   harmonic constants JSON: predicted tide, alone or where the gauge has none\n"
-         "  --reference-elevation M    reference contour z_ref in metres on the datum (default 0)\n"
-         "  --slope VALUE|auto         tan(beta) for every transect, or estimate it (auto)\n"
-         "  --slope-sigma VALUE        1-sigma of a --slope VALUE\n"
-         "  --slope-range MIN:MAX      tan(beta) search range of --slope auto (default 0.01:0.2)\n"
-         "  --slopes FILE              per-transect slopes (CSV transect_id,slope[,slope_sigma], or the\n"
-         "                             .json of `strandline slope`); with auto, listed transects keep them\n"
-         "  --transect-params FILE     per-transect slope, slope_sigma, z_ref_m (CSV)\n"
-         "  --default-slope VALUE      slope for transects not listed (flagged default_slope)\n"
-         "  --default-slope-sigma V    1-sigma of the default slope\n"
-         "  --sensor-table FILE        sensor,class,sigma_m CSV replacing the built-in table\n"
-         "  --waves FILE               wave record CSV (time,hs_m,tp_s[,dir_deg][,depth_m]); Hs deshoaled to deep\n"
-         "                             water when depth_m is given\n"
-         "  --wave-correction MODE     none | setup | runup (Stockdon et al. 2006; default setup with --waves)\n"
-         "  --config FILE              run configuration JSON (processing choices, steps and parameters;\n"
-         "                             the options above override its keys)\n";
+void add_batch_options(Args& args, const BatchOptions& options) {
+  args.add_value("observations", "FILE", "raw observations CSV (transect_id,time,chainage_m,sensor,image_id[,...])")
+      .add_value("water-levels", "FILE", "water-level record CSV (time,level_m) on the site datum")
+      .add_value("tide-constituents", "FILE", "harmonic constants JSON: predicted tide, alone or where the gauge has none")
+      .add_value("reference-elevation", "M", "reference contour z_ref in metres on the datum (default 0)");
+  if (options.estimate_slopes) {
+    // Only "auto" is accepted: a fixed slope is refused with a pointer to `correct`.
+    args.add_value("slope", "auto", "estimate every slope (implied; a fixed VALUE belongs to `strandline correct`)");
+  } else {
+    args.add_value("slope", "VALUE|auto", "tan(beta) for every transect (e.g. 0.08, not 8% or 1:12), or estimate it (auto)")
+        .add_value("slope-sigma", "VALUE", "1-sigma of a --slope VALUE");
+  }
+  args.add_value("slope-range", "MIN:MAX",
+                 options.estimate_slopes ? "tan(beta) search range of the estimate (default 0.01:0.2)"
+                                         : "tan(beta) search range of --slope auto (default 0.01:0.2)")
+      .add_value("slopes", "FILE",
+                 "per-transect slopes (CSV transect_id,slope[,slope_sigma], or the\n"
+                 ".json of `strandline slope`); listed transects keep them when estimating")
+      .add_value("transect-params", "FILE", "per-transect slope, slope_sigma, z_ref_m (CSV)")
+      .add_value("default-slope", "VALUE", "slope for transects not listed (flagged default_slope)")
+      .add_value("default-slope-sigma", "V", "1-sigma of the default slope")
+      .add_value("sensor-table", "FILE", "sensor,class,sigma_m CSV replacing the built-in table")
+      .add_value("waves", "FILE",
+                 "wave record CSV (time,hs_m,tp_s[,dir_deg][,depth_m]); Hs deshoaled to deep\n"
+                 "water when depth_m is given")
+      .add_value("wave-correction", "MODE", "none | setup | runup (Stockdon et al. 2006; default setup with --waves)")
+      .add_value("config", "FILE",
+                 "run configuration JSON (processing choices, steps and parameters;\n"
+                 "the options above override its keys)");
+  if (options.trend_window)
+    args.add_value("trend-from", "TIME", "start of the summary's trend and seasonal fit (UTC time, or a date:\n"
+                                         "2010-01-01 is midnight UTC)")
+        .add_value("trend-to", "TIME", "end of that window (UTC time or date)");
+  args.add_switch("skip-invalid", "skip bad observation rows (default: stop at the first)");
 }
 
-BatchInputs load_batch_inputs(Args& args, const BatchOptions& options) {
+BatchInputs load_batch_inputs(const Args& args, const BatchOptions& options) {
   BatchInputs b;
   app::RunMaterial material;
   // Configuration first: a bad configuration fails before any large file is read.

@@ -25,14 +25,15 @@ struct BatchOptions {
   bool trend_window = false;     // --trend-from/--trend-to (`correct` writes a summary)
 };
 
-// Reads the options shared by batch commands from `args` (marking them used)
-// and loads the files. Throws UsageError / InputError / ConfigError.
-BatchInputs load_batch_inputs(Args& args, const BatchOptions& options);
+// Declares the options shared by batch commands (those `options` lets the
+// command accept), so that parsing and --help both know them.
+void add_batch_options(Args& args, const BatchOptions& options);
+
+// Reads the shared options from parsed `args` and loads the files.
+// Throws UsageError / InputError / ConfigError.
+BatchInputs load_batch_inputs(const Args& args, const BatchOptions& options);
 
 // Refuses a run in which some transect would get no slope (a usage error naming them).
 void check_slope_coverage(const BatchInputs& batch);
-
-// The option lines shared by `correct` and `slope`, for --help.
-std::string batch_options_help();
 
 }  // namespace strandline::cli

@@ -4,11 +4,13 @@
 // and the summary JSON with provenance. Every output is written atomically.
 #include <unistd.h>
 
+#include <algorithm>
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
 
 #include "corrections/core/errors.h"
+#include "corrections/core/time_utc.h"
 #include "server/cli/batch_inputs.h"
 #include "server/app/exports.h"
 #include "server/cli/commands.h"
@@ -26,31 +28,43 @@ std::string default_rejected_path(const std::string& out) {
   return (p.parent_path() / (p.stem().string() + ".rejected.csv")).string();
 }
 
-const char* kHelp =
-    "usage: strandline correct --observations FILE --water-levels FILE (--slope VALUE | --slopes FILE | ...)\n"
-    "                          --out cleaned.csv [--summary summary.json] [options]\n\n"
+const char* kUsage =
+    "strandline correct --observations FILE --water-levels FILE (--slope VALUE | --slopes FILE | ...)\n"
+    "                          --out cleaned.csv [--summary summary.json] [options]\n"
+    "       strandline correct --check --observations FILE ... (validate only)";
+const char* kDescription =
     "Corrects raw shoreline positions to the reference contour, runs the QC filters and writes one\n"
-    "row per valid input row with flags and sigma_m.\n\noptions:\n";
+    "row per valid input row with flags and sigma_m.";
+
+// --check: what was read, for a person to compare with what they meant to give.
+void report_check(const SiteTable& table, std::size_t rejected_rows) {
+  std::cout << "inputs valid: " << table.size() << " rows on " << table.transects.size() << " transects";
+  if (rejected_rows) std::cout << " (" << rejected_rows << " invalid rows would be rejected)";
+  if (table.size()) {
+    const auto [first, last] = std::minmax_element(table.time_s.begin(), table.time_s.end());
+    std::cout << "; times " << format_time_utc(*first) << " to " << format_time_utc(*last);
+  }
+  std::cout << "\nnothing run, nothing written (--check)\n";
+}
 
 }  // namespace
 
 int run_correct(const CommandArgs& argv) {
-  Args args(argv, {"skip-invalid", "help", "quiet"});
-  if (args.flag("help")) {
-    std::cout << kHelp << batch_options_help()
-              << "  --out FILE                 cleaned rows: CSV, or .gpkg/.geojson layers (needs --transects)\n"
-                 "  --transects FILE           transect geometry (lines or points; see `strandline intersect --help`)\n"
-                 "  --summary FILE             per-transect summary JSON with provenance\n"
-                 "  --trend-from TIME, --trend-to TIME  window of the summary's trend and seasonal fit (UTC)\n"
-                 "  --skip-invalid             write bad rows to --rejected and go on (default: stop at the first)\n"
-                 "  --rejected FILE            rejected rows with reasons (default: OUT stem + .rejected.csv)\n"
-                 "  --quiet                    no progress on the terminal\n";
-    return kExitOk;
-  }
+  Args args(kUsage, kDescription);
+  add_batch_options(args, {false, false, true});
+  args.add_value("out", "FILE", "cleaned rows: CSV, or .gpkg/.geojson layers (needs --transects)")
+      .add_value("transects", "FILE", "transect geometry (lines or points; see `strandline intersect --help`)")
+      .add_value("summary", "FILE", "per-transect summary JSON with provenance")
+      .add_value("rejected", "FILE", "with --skip-invalid: rejected rows with reasons (default: OUT stem + .rejected.csv)")
+      .add_switch("check", "validate options, configuration and input files, report what was read\n"
+                           "(rows, transects, time span) and stop: nothing is run or written")
+      .add_switch("quiet", "no progress on the terminal");
+  if (!args.parse(argv)) return kExitOk;
+  const bool check_only = args.flag("check");
   const std::string started = store::now_utc_text();
   const bool skip_invalid = args.flag("skip-invalid");
   const bool quiet = args.flag("quiet");
-  const std::string out_path = args.require("out");
+  const std::string out_path = check_only ? args.get("out").value_or("") : args.require("out");
   const auto summary_path = args.get("summary");
   auto rejected_path = args.get("rejected");
   const auto transects_path = args.get("transects");
@@ -60,13 +74,16 @@ int run_correct(const CommandArgs& argv) {
   if (skip_invalid && !rejected_path) rejected_path = default_rejected_path(out_path);
 
   BatchInputs batch = load_batch_inputs(args, {skip_invalid, false, true});
-  args.finish();
   check_slope_coverage(batch);
   const app::PreparedRun& run = *batch.run;
 
   SiteTable& table = batch.observations.table;
   std::optional<geo::TransectSet> transects;
   if (transects_path) transects = app::attach_transect_geometry(*transects_path, table);
+  if (check_only) {
+    report_check(table, batch.observations.rejected.size());
+    return kExitOk;
+  }
   const bool show_progress = !quiet && ::isatty(STDERR_FILENO);
   const ProgressFn progress = [&](std::size_t done, std::size_t total) {
     if (show_progress && (done == total || done % 50 == 0))

@@ -22,34 +22,19 @@ namespace strandline::cli {
 
 namespace {
 
-constexpr const char* kIntersectHelp = R"(usage: strandline intersect --shorelines FILE --transects FILE --out obs.csv [options]
+// The transect-file options shared by intersect, polylines and geoexport.
+void add_transect_options(Args& args) {
+  args.add_value("transects-layer", "NAME", "layer of the transects file when it has several")
+      .add_value("transect-id-field", "N", "transect id attribute (default transect_id)")
+      .add_value("azimuth-field", "N", "point transects: azimuth attribute (default azimuth_deg)")
+      .add_value("length-field", "N", "point transects: length attribute (default length_m)")
+      .add_value("crs", "CRS",
+                 "work CRS when the transects are not projected\n"
+                 "(EPSG code, WKT or PROJ string); default: UTM zone\n"
+                 "of the transects' centroid");
+}
 
-Intersects shoreline polylines (one or more per image) with transects and writes
-the batch observation CSV: one row per transect crossed per image.
-
-  --shorelines FILE       polylines (GeoPackage, GeoJSON, Shapefile, FlatGeobuf, ...)
-  --shorelines-layer NAME layer of FILE when it has several
-  --transects FILE        transect lines (origin = first vertex) or points with
-                          azimuth and length attributes
-  --transects-layer NAME  layer of the transects file when it has several
-  --out FILE              observation CSV ("-" for standard output)
-  --crs CRS               work CRS when the transects are not projected
-                          (EPSG code, WKT or PROJ string); default: UTM zone
-                          of the transects' centroid
-  --crossing RULE         several crossings: most-seaward (default),
-                          most-landward, or flag-only (leave the pair out)
-  --transect-id-field N   transect id attribute (default transect_id)
-  --azimuth-field N       point transects: azimuth attribute (default azimuth_deg)
-  --length-field N        point transects: length attribute (default length_m)
-  --time-field N          shoreline attributes (defaults time, sensor, image_id,
-  --sensor-field N          cloud_fraction, georef_rmse_m; the last two are
-  --image-field N           optional)
-  --cloud-field N
-  --rmse-field N
-A report (work CRS, images, crossings, uncrossed transects) goes to standard error.
-)";
-
-geo::TransectReadOptions transect_options(Args& args) {
+geo::TransectReadOptions transect_options(const Args& args) {
   geo::TransectReadOptions o;
   o.layer = args.get("transects-layer");
   o.id_field = args.get("transect-id-field").value_or(o.id_field);
@@ -68,11 +53,26 @@ void report_work_crs(const geo::WorkCrs& crs) {
 }  // namespace
 
 int run_intersect(const CommandArgs& argv) {
-  Args args(argv, {"help"});
-  if (args.flag("help")) {
-    std::cout << kIntersectHelp;
-    return kExitOk;
-  }
+  Args args("strandline intersect --shorelines FILE --transects FILE --out obs.csv [options]",
+            "Intersects shoreline polylines (one or more per image) with transects and writes\n"
+            "the batch observation CSV: one row per transect crossed per image.");
+  args.add_value("shorelines", "FILE", "polylines (GeoPackage, GeoJSON, Shapefile, FlatGeobuf, ...)")
+      .add_value("shorelines-layer", "NAME", "layer of FILE when it has several")
+      .add_value("transects", "FILE",
+                 "transect lines (origin = first vertex) or points with\n"
+                 "azimuth and length attributes")
+      .add_value("out", "FILE", "observation CSV (\"-\" for standard output)")
+      .add_value("crossing", "RULE",
+                 "several crossings: most-seaward (default),\n"
+                 "most-landward, or flag-only (leave the pair out)");
+  add_transect_options(args);
+  args.add_value("time-field", "N", "shoreline time attribute (default time)")
+      .add_value("sensor-field", "N", "shoreline sensor attribute (default sensor)")
+      .add_value("image-field", "N", "shoreline image attribute (default image_id)")
+      .add_value("cloud-field", "N", "optional cloud fraction attribute (cloud_fraction)")
+      .add_value("rmse-field", "N", "optional georeferencing RMSE attribute (georef_rmse_m)")
+      .add_epilogue("A report (work CRS, images, crossings, uncrossed transects) goes to standard error.\n");
+  if (!args.parse(argv)) return kExitOk;
   const std::string shorelines = args.require("shorelines");
   const std::string transects_path = args.require("transects");
   const std::string out_path = args.require("out");
@@ -86,7 +86,6 @@ int run_intersect(const CommandArgs& argv) {
   fields.image = args.get("image-field").value_or(fields.image);
   if (auto v = args.get("cloud-field")) fields.cloud_fraction = *v, fields.cloud_fraction_required = true;
   if (auto v = args.get("rmse-field")) fields.georef_rmse = *v, fields.georef_rmse_required = true;
-  args.finish();
 
   const geo::TransectSet transects = geo::read_transects(transects_path, topt);
   report_work_crs(transects.crs);
@@ -116,30 +115,22 @@ int run_intersect(const CommandArgs& argv) {
   return kExitOk;
 }
 
-constexpr const char* kTransectsHelp = R"(usage: strandline transects --baseline FILE --spacing M --length M --seaward left|right --out FILE [options]
-
-Generates shore-normal transects along a baseline polyline (one or more lines):
-one every --spacing metres of baseline from each line's first vertex, normal to
-the baseline's direction averaged over --smoothing metres, pointing seaward.
-
-  --baseline FILE        baseline lines (any OGR vector format)
-  --baseline-layer NAME  layer of FILE when it has several
-  --spacing M            metres between transects along the baseline
-  --length M             transect length in metres
-  --seaward SIDE         the sea lies left or right walking along the baseline
-  --landward M           start each transect M metres landward of the baseline (0)
-  --smoothing M          window for the baseline direction (default: spacing)
-  --id-prefix TEXT       transect ids TEXT0001, TEXT0002, ... (default T)
-  --crs CRS              work CRS when the baseline is not projected
-  --out FILE             .gpkg (work CRS) or .geojson (WGS 84 lon/lat)
-)";
-
 int run_transects(const CommandArgs& argv) {
-  Args args(argv, {"help"});
-  if (args.flag("help")) {
-    std::cout << kTransectsHelp;
-    return kExitOk;
-  }
+  Args args("strandline transects --baseline FILE --spacing M --length M --seaward left|right --out FILE [options]",
+            "Generates shore-normal transects along a baseline polyline (one or more lines):\n"
+            "one every --spacing metres of baseline from each line's first vertex, normal to\n"
+            "the baseline's direction averaged over --smoothing metres, pointing seaward.");
+  args.add_value("baseline", "FILE", "baseline lines (any OGR vector format)")
+      .add_value("baseline-layer", "NAME", "layer of FILE when it has several")
+      .add_value("spacing", "M", "metres between transects along the baseline")
+      .add_value("length", "M", "transect length in metres")
+      .add_value("seaward", "SIDE", "the sea lies left or right walking along the baseline")
+      .add_value("landward", "M", "start each transect M metres landward of the baseline (0)")
+      .add_value("smoothing", "M", "window for the baseline direction (default: spacing)")
+      .add_value("id-prefix", "TEXT", "transect ids TEXT0001, TEXT0002, ... (default T)")
+      .add_value("crs", "CRS", "work CRS when the baseline is not projected")
+      .add_value("out", "FILE", ".gpkg (work CRS) or .geojson (WGS 84 lon/lat)");
+  if (!args.parse(argv)) return kExitOk;
   geo::BaselineOptions o;
   const std::string baseline = args.require("baseline");
   const std::string out_path = args.require("out");
@@ -153,7 +144,6 @@ int run_transects(const CommandArgs& argv) {
   o.landward_m = args.number_or("landward", 0.0);
   o.smoothing_m = args.number_or("smoothing", kUnknown);
   o.id_prefix = args.get("id-prefix").value_or(o.id_prefix);
-  args.finish();
   if (!geo::geo_format_for(out_path)) throw UsageError("--out " + out_path + ": use a .gpkg or .geojson file");
 
   const geo::BaselineTransects made = geo::transects_from_baseline(baseline, o);
@@ -167,33 +157,24 @@ int run_transects(const CommandArgs& argv) {
   return kExitOk;
 }
 
-constexpr const char* kPolylinesHelp = R"(usage: strandline polylines --observations obs.csv --transects FILE --out lines.gpkg [options]
-
-Draws the per-transect positions of each image (batch observation CSV) as
-shoreline polylines: per image, a line through the positions on consecutive
-transects (transect file order), broken where a transect has no position; an
-isolated position becomes a short tick across its transect. `intersect` on the
-result gives the positions back.
-
-  --observations FILE     batch observation CSV (chainage_m = raw position)
-  --transects FILE        transects (see `strandline intersect --help`)
-  --transects-layer NAME  --transect-id-field N  --azimuth-field N  --length-field N  --crs CRS
-  --tick M                half length of a tick in metres (default 5)
-  --out FILE              .gpkg (work CRS) or .geojson (WGS 84 lon/lat); layer `shorelines`
-)";
-
 int run_polylines(const CommandArgs& argv) {
-  Args args(argv, {"help"});
-  if (args.flag("help")) {
-    std::cout << kPolylinesHelp;
-    return kExitOk;
-  }
+  Args args("strandline polylines --observations obs.csv --transects FILE --out lines.gpkg [options]",
+            "Draws the per-transect positions of each image (batch observation CSV) as\n"
+            "shoreline polylines: per image, a line through the positions on consecutive\n"
+            "transects (transect file order), broken where a transect has no position; an\n"
+            "isolated position becomes a short tick across its transect. `intersect` on the\n"
+            "result gives the positions back.");
+  args.add_value("observations", "FILE", "batch observation CSV (chainage_m = raw position)")
+      .add_value("transects", "FILE", "transects (see `strandline intersect --help`)");
+  add_transect_options(args);
+  args.add_value("tick", "M", "half length of a tick in metres (default 5)")
+      .add_value("out", "FILE", ".gpkg (work CRS) or .geojson (WGS 84 lon/lat); layer `shorelines`");
+  if (!args.parse(argv)) return kExitOk;
   const std::string obs_path = args.require("observations");
   const std::string transects_path = args.require("transects");
   const std::string out_path = args.require("out");
   geo::TransectReadOptions topt = transect_options(args);
   const double tick_m = args.number_or("tick", 5.0);
-  args.finish();
   if (!geo::geo_format_for(out_path)) throw UsageError("--out " + out_path + ": use a .gpkg or .geojson file");
   if (!(tick_m > 0)) throw UsageError("--tick must be positive");
 
@@ -214,27 +195,20 @@ int run_polylines(const CommandArgs& argv) {
   return kExitOk;
 }
 
-constexpr const char* kGeoexportHelp = R"(usage: strandline geoexport --points cleaned.csv --transects FILE --out cleaned.gpkg [options]
-
-Writes corrected shoreline points as geometry (transect origin + chainage along
-the azimuth) with every column of the CSV, and the transects as lines carrying
-the per-transect summary.
-
-  --points FILE           CSV with transect_id and a chainage column (e.g. cleaned.csv)
-  --chainage-column NAME  position placed on the transect (default chainage_m)
-  --summary FILE          summary JSON of `strandline correct` (per-transect columns)
-  --transects FILE        transects (see `strandline intersect --help`)
-  --transects-layer NAME  --transect-id-field N  --azimuth-field N  --length-field N  --crs CRS
-  --out FILE              .gpkg: layers shoreline_points and transects in the work CRS;
-                          .geojson: WGS 84 lon/lat, transects in FILE_transects.geojson
-)";
-
 int run_geoexport(const CommandArgs& argv) {
-  Args args(argv, {"help"});
-  if (args.flag("help")) {
-    std::cout << kGeoexportHelp;
-    return kExitOk;
-  }
+  Args args("strandline geoexport --points cleaned.csv --transects FILE --out cleaned.gpkg [options]",
+            "Writes corrected shoreline points as geometry (transect origin + chainage along\n"
+            "the azimuth) with every column of the CSV, and the transects as lines carrying\n"
+            "the per-transect summary.");
+  args.add_value("points", "FILE", "CSV with transect_id and a chainage column (e.g. cleaned.csv)")
+      .add_value("chainage-column", "NAME", "position placed on the transect (default chainage_m)")
+      .add_value("summary", "FILE", "summary JSON of `strandline correct` (per-transect columns)")
+      .add_value("transects", "FILE", "transects (see `strandline intersect --help`)");
+  add_transect_options(args);
+  args.add_value("out", "FILE",
+                 ".gpkg: layers shoreline_points and transects in the work CRS;\n"
+                 ".geojson: WGS 84 lon/lat, transects in FILE_transects.geojson");
+  if (!args.parse(argv)) return kExitOk;
   const std::string points_path = args.require("points");
   const std::string transects_path = args.require("transects");
   const std::string out_path = args.require("out");
@@ -242,7 +216,6 @@ int run_geoexport(const CommandArgs& argv) {
   geo::GeoLayers layers;
   layers.chainage_column = args.get("chainage-column").value_or(layers.chainage_column);
   geo::TransectReadOptions topt = transect_options(args);
-  args.finish();
   if (!geo::geo_format_for(out_path)) throw UsageError("--out " + out_path + ": use a .gpkg or .geojson file");
 
   const geo::TransectSet transects = geo::read_transects(transects_path, topt);

@@ -5,6 +5,7 @@
 #include <iostream>
 
 #include "corrections/core/errors.h"
+#include "server/cli/args.h"
 #include "server/cli/commands.h"
 
 namespace {
@@ -37,7 +38,7 @@ void print_usage(std::ostream& out) {
     for (std::size_t i = c.name.size(); i < 14; ++i) out << ' ';
     out << c.summary << "\n";
   }
-  out << "\n`strandline SUBCOMMAND --help` lists a subcommand's options; `strandline version` prints the version.\n"
+  out << "\n`strandline SUBCOMMAND --help` (or -h) lists a subcommand's options; `strandline version` prints the version.\n"
          "Exit codes: 0 success, 1 internal failure, 2 bad input or usage.\n";
 }
 
@@ -45,7 +46,8 @@ void print_usage(std::ostream& out) {
 
 int main(int argc, char** argv) {
   using namespace strandline;
-  if (argc < 2 || std::string_view(argv[1]) == "--help" || std::string_view(argv[1]) == "help") {
+  if (argc < 2 || std::string_view(argv[1]) == "--help" || std::string_view(argv[1]) == "-h" ||
+      std::string_view(argv[1]) == "help") {
     print_usage(argc < 2 ? std::cerr : std::cout);
     return argc < 2 ? kExitBadInput : kExitOk;
   }
@@ -74,7 +76,11 @@ int main(int argc, char** argv) {
       return kExitInternal;
     }
   }
-  std::cerr << "strandline: unknown subcommand \"" << name << "\"\n";
+  std::vector<std::string> names;
+  for (const auto& c : kCommands) names.emplace_back(c.name);
+  std::cerr << "strandline: unknown subcommand \"" << name << "\"";
+  if (auto near = cli::closest_name(std::string(name), names)) std::cerr << " (did you mean " << *near << "?)";
+  std::cerr << "\n";
   print_usage(std::cerr);
   return kExitBadInput;
 }

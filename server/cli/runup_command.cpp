@@ -18,20 +18,7 @@ namespace strandline::cli {
 
 namespace {
 
-constexpr const char* kRunupHelp =
-    "usage: strandline runup --hs METRES --tp SECONDS --slope TAN_BETA [--depth METRES]\n"
-    "\n"
-    "  --hs      significant wave height of the record (0 to 30 m)\n"
-    "  --tp      peak period (1 to 40 s)\n"
-    "  --slope   beach-face slope tan(beta) (0 < slope <= 1)\n"
-    "  --depth   depth of a nearshore record (m); absent: Hs is already a deep-water value\n"
-    "\n"
-    "Prints JSON: H0 (deshoaled with linear theory, no refraction), L0 = g Tp^2 / 2pi,\n"
-    "the Iribarren number, the regime (dissipative below 0.3), and the Stockdon et al.\n"
-    "(2006) setup, incident and infragravity swash, total swash and R2%, all in metres\n"
-    "above the still water level. R2% carries the paper's reported rms error of 0.38 m.\n";
-
-double checked(Args& args, const std::string& name, double low, double high, bool low_open) {
+double checked(const Args& args, const std::string& name, double low, double high, bool low_open) {
   const double v = *args.number(name);
   if ((low_open ? !(v > low) : !(v >= low)) || !(v <= high))
     throw UsageError("option --" + name + " " + std::to_string(v) + ": expected " + (low_open ? "(" : "[") +
@@ -42,11 +29,17 @@ double checked(Args& args, const std::string& name, double low, double high, boo
 }  // namespace
 
 int run_runup(const CommandArgs& argv) {
-  Args args(argv, {"help"});
-  if (args.flag("help")) {
-    std::cout << kRunupHelp;
-    return kExitOk;
-  }
+  Args args("strandline runup --hs METRES --tp SECONDS --slope TAN_BETA [--depth METRES]", "");
+  args.add_value("hs", "METRES", "significant wave height of the record (0 to 30 m)")
+      .add_value("tp", "SECONDS", "peak period (1 to 40 s)")
+      .add_value("slope", "TAN_BETA", "beach-face slope tan(beta) (0 < slope <= 1)")
+      .add_value("depth", "METRES", "depth of a nearshore record (m); absent: Hs is already a deep-water value")
+      .add_epilogue(
+          "Prints JSON: H0 (deshoaled with linear theory, no refraction), L0 = g Tp^2 / 2pi,\n"
+          "the Iribarren number, the regime (dissipative below 0.3), and the Stockdon et al.\n"
+          "(2006) setup, incident and infragravity swash, total swash and R2%, all in metres\n"
+          "above the still water level. R2% carries the paper's reported rms error of 0.38 m.\n");
+  if (!args.parse(argv)) return kExitOk;
   args.require("hs");
   args.require("tp");
   args.require("slope");
@@ -55,7 +48,6 @@ int run_runup(const CommandArgs& argv) {
   const double slope = checked(args, "slope", 0.0, 1.0, true);
   const bool nearshore = args.has("depth");
   const double depth = nearshore ? checked(args, "depth", 0.0, 11000.0, true) : kUnknown;
-  args.finish();
 
   const LinearWave at_record = linear_wave(tp, depth);
   const double h0 = deshoal_to_deep_water(hs, tp, depth);

@@ -18,25 +18,10 @@ namespace strandline::cli {
 
 namespace {
 
-const char* kServeHelp =
-    "usage: strandline serve --db FILE [--port 8600] [options]\n"
-    "       strandline serve --demo [--port 8600]\n"
-    "  --db FILE                  SQLite database (created and migrated when new)\n"
-    "  --demo                     temporary database with the invented demo site and one finished run\n"
-    "  --host ADDRESS             listen address (default 127.0.0.1)\n"
-    "  --port N                   TCP port (default 8600; 0 = any free port, printed)\n"
-    "  --static DIR               serve the dashboard's static files under /\n"
-    "  --read-key-required        reads need an API key too (writes always do)\n"
-    "  --threads N                handler threads = connections served at once (default 96)\n"
-    "  --max-concurrent N         requests in progress before 503 + Retry-After (default 80)\n"
-    "  --max-body-mb N            request body limit in MiB (default 512)\n"
-    "  --run-workers N            background run threads (default 1)\n"
-    "Keys: `strandline keys add --db FILE --name NAME --role write`.\n";
-
 std::sig_atomic_t volatile g_stop = 0;
 void on_signal(int) { g_stop = 1; }
 
-int positive_int(Args& args, const std::string& name, int fallback, int max) {
+int positive_int(const Args& args, const std::string& name, int fallback, int max) {
   const double v = args.number_or(name, fallback);
   if (v < 0 || v > max || v != static_cast<int>(v))
     throw UsageError("option --" + name + ": expected an integer from 0 to " + std::to_string(max));
@@ -46,11 +31,20 @@ int positive_int(Args& args, const std::string& name, int fallback, int max) {
 }  // namespace
 
 int run_serve(const CommandArgs& argv) {
-  Args args(argv, {"demo", "read-key-required", "help"});
-  if (args.flag("help")) {
-    std::cout << kServeHelp;
-    return kExitOk;
-  }
+  Args args("strandline serve --db FILE [--port 8600] [options]\n"
+            "       strandline serve --demo [--port 8600]", "");
+  args.add_value("db", "FILE", "SQLite database (created and migrated when new)")
+      .add_switch("demo", "temporary database with the invented demo site and one finished run")
+      .add_value("host", "ADDRESS", "listen address (default 127.0.0.1)")
+      .add_value("port", "N", "TCP port (default 8600; 0 = any free port, printed)")
+      .add_value("static", "DIR", "serve the dashboard's static files under /")
+      .add_switch("read-key-required", "reads need an API key too (writes always do)")
+      .add_value("threads", "N", "handler threads = connections served at once (default 96)")
+      .add_value("max-concurrent", "N", "requests in progress before 503 + Retry-After (default 80)")
+      .add_value("max-body-mb", "N", "request body limit in MiB (default 512)")
+      .add_value("run-workers", "N", "background run threads (default 1)")
+      .add_epilogue("Keys: `strandline keys add --db FILE --name NAME --role write`.\n");
+  if (!args.parse(argv)) return kExitOk;
   const bool demo = args.flag("demo");
   http::ServiceOptions options;
   options.read_key_required = args.flag("read-key-required");
@@ -74,7 +68,6 @@ int run_serve(const CommandArgs& argv) {
   } else {
     db_path = args.require("db");
   }
-  args.finish();
 
   auto store = store::open_sqlite_store(db_path);
   http::Service service(*store, options);
@@ -106,21 +99,36 @@ int run_serve(const CommandArgs& argv) {
 }
 
 int run_keys(const CommandArgs& argv) {
-  if (argv.empty() || argv[0] == "--help") {
-    std::cout << "usage: strandline keys add --db FILE --name NAME --role read|write\n"
-                 "       strandline keys list --db FILE\n"
-                 "       strandline keys revoke --db FILE --name NAME\n"
-                 "The key is printed once by `add`; only its SHA-256 is stored.\n";
+  const char* kKeysUsage =
+      "usage: strandline keys add --db FILE --name NAME --role read|write\n"
+      "       strandline keys list --db FILE\n"
+      "       strandline keys revoke --db FILE --name NAME\n"
+      "The key is printed once by `add`; only its SHA-256 is stored. `add` creates a new database\n"
+      "(as `serve --db FILE` does); `list` and `revoke` need an existing one.\n";
+  if (argv.empty() || argv[0] == "--help" || argv[0] == "-h") {
+    (argv.empty() ? std::cerr : std::cout) << kKeysUsage;
     return argv.empty() ? kExitBadInput : kExitOk;
   }
   const std::string action = argv[0];
-  Args args(CommandArgs(argv.begin() + 1, argv.end()), {});
+  if (action != "add" && action != "list" && action != "revoke")
+    throw UsageError("unknown action \"" + action + "\" (add, list, revoke)");
+  Args args("strandline keys " + action + " --db FILE" +
+                (action == "add" ? " --name NAME --role read|write" : action == "revoke" ? " --name NAME" : ""),
+            "");
+  args.add_value("db", "FILE", action == "add" ? "SQLite database of the service (created when new)"
+                                                : "SQLite database of the service (must exist)");
+  if (action != "list") args.add_value("name", "NAME", "name of the key");
+  if (action == "add") args.add_value("role", "ROLE", "read or write (default write)");
+  if (!args.parse(CommandArgs(argv.begin() + 1, argv.end()))) return kExitOk;
   const std::string db = args.require("db");
+  // Opening creates a database: a misspelt path must not quietly become an empty key list. `add`
+  // may create one, since a new site's first key is added before the service first starts.
+  if (action != "add" && !std::filesystem::exists(db))
+    throw UsageError("database " + db + " does not exist (`strandline serve --db " + db + "` creates one)");
   if (action == "add") {
     const std::string name = args.require("name");
     const std::string role = args.get("role").value_or("write");
-    args.finish();
-    if (role != "read" && role != "write") throw UsageError("option --role: expected read or write");
+      if (role != "read" && role != "write") throw UsageError("option --role: expected read or write");
     auto store = store::open_sqlite_store(db);
     const auto key = store::generate_api_key(name, role);
     try {
@@ -133,8 +141,7 @@ int run_keys(const CommandArgs& argv) {
     return kExitOk;
   }
   if (action == "list") {
-    args.finish();
-    auto store = store::open_sqlite_store(db);
+      auto store = store::open_sqlite_store(db);
     std::cout << "name,role,prefix,created_at,revoked_at\n";
     for (const auto& k : store->keys())
       std::cout << k.name << "," << k.role << "," << k.prefix << "," << k.created_at << ","
@@ -143,8 +150,7 @@ int run_keys(const CommandArgs& argv) {
   }
   if (action == "revoke") {
     const std::string name = args.require("name");
-    args.finish();
-    auto store = store::open_sqlite_store(db);
+      auto store = store::open_sqlite_store(db);
     if (!store->revoke_key(name)) throw UsageError("no active key named \"" + name + "\"");
     std::cerr << "key \"" << name << "\" revoked\n";
     return kExitOk;

@@ -20,25 +20,23 @@ namespace strandline::cli {
 
 namespace {
 
-const char* kHelp =
-    "usage: strandline slope --observations FILE --water-levels FILE --out slopes.json\n"
-    "                        [--slope-range 0.01:0.2] [--config FILE] [options]\n\n"
+const char* kUsage =
+    "strandline slope --observations FILE --water-levels FILE --out slopes.json\n"
+    "                        [--slope-range 0.01:0.2] [--config FILE] [options]";
+const char* kDescription =
     "Estimates the beach-face slope of every transect from the data (the tide correction that leaves\n"
     "the least energy in the aliased tidal band; Vos et al. 2020) with a bootstrap 95% interval and a\n"
     "verdict. Transects listed in --slopes keep their listed slope. Slope-step parameters (band width,\n"
-    "bootstrap count, seed, minimum images, ...) go in --config under /steps/slope.\n\noptions:\n";
+    "bootstrap count, seed, minimum images, ...) go in --config under /steps/slope.";
 
 }  // namespace
 
 int run_slope(const CommandArgs& argv) {
-  Args args(argv, {"skip-invalid", "help", "quiet"});
-  if (args.flag("help")) {
-    std::cout << kHelp << batch_options_help()
-              << "  --out FILE                 slopes JSON (see the formats reference, \"Slopes JSON\")\n"
-                 "  --skip-invalid             skip bad observation rows (default: stop at the first)\n"
-                 "  --quiet                    no progress on the terminal\n";
-    return kExitOk;
-  }
+  Args args(kUsage, kDescription);
+  add_batch_options(args, {false, true, false});
+  args.add_value("out", "FILE", "slopes JSON (see the formats reference, \"Slopes JSON\")")
+      .add_switch("quiet", "no progress on the terminal");
+  if (!args.parse(argv)) return kExitOk;
   const std::string started = store::now_utc_text();
   const bool quiet = args.flag("quiet");
   const bool skip_invalid = args.flag("skip-invalid");
@@ -47,7 +45,6 @@ int run_slope(const CommandArgs& argv) {
     throw UsageError("strandline slope estimates slopes: --slope VALUE belongs to `strandline correct`");
   // Estimation is what this command does: --slope auto is implied.
   BatchInputs batch = load_batch_inputs(args, {skip_invalid, true, false});
-  args.finish();
   const app::PreparedRun& run = *batch.run;
 
   SiteTable& table = batch.observations.table;

@@ -20,41 +20,11 @@ namespace strandline::cli {
 
 namespace {
 
-constexpr const char* kPredictHelp =
-    "usage: strandline tide-predict --constituents FILE --from TIME --to TIME [--step-s SECONDS] [--out FILE]\n"
-    "\n"
-    "  --constituents  constituent file (JSON; see FORMATS.md, \"Tide constituents\")\n"
-    "  --from, --to    UTC times with zone, e.g. 2020-01-01T00:00Z (both included when on the step)\n"
-    "  --step-s        spacing in seconds (default 600)\n"
-    "  --out           output CSV (default: standard output)\n"
-    "\n"
-    "Writes `time,level_m`: the astronomical tide on the file's datum, with nodal\n"
-    "corrections (Schureman 1958) evaluated at every time. Surge, river flow and\n"
-    "datum offsets are not included.\n";
-
-constexpr const char* kFitHelp =
-    "usage: strandline tide-fit --water-levels FILE --out FILE [--constituents M2,S2,...]\n"
-    "                           [--rayleigh R] [--fit-rate] [--datum NAME]\n"
-    "\n"
-    "  --water-levels  gauge record CSV `time,level_m` (gaps and irregular spacing allowed)\n"
-    "  --out           constituent file to write (JSON)\n"
-    "  --constituents  candidates in priority order (default: 48 constituents, M2 first)\n"
-    "  --rayleigh      Rayleigh factor R (default 1): a candidate is fitted only when its\n"
-    "                  speed differs from every constituent already admitted (and from\n"
-    "                  the mean) by at least R cycles over the record span\n"
-    "  --fit-rate      also fit a linear rate of the mean level (needs years of record)\n"
-    "  --datum         datum name written to the file (default MSL)\n"
-    "\n"
-    "Least squares with the same nodal corrections as tide-predict. Writes per\n"
-    "constituent amplitude and phase with standard errors (white-noise residuals\n"
-    "assumed: optimistic when residuals are correlated), the constituents the\n"
-    "record cannot resolve, and the residual standard deviation, which becomes the\n"
-    "1-sigma of predicted water levels in `correct`. A summary goes to stderr.\n";
-
-TimeS time_option(Args& args, const std::string& name) {
+// A date alone is accepted here (midnight UTC); the engine's parser stays strict.
+TimeS time_option(const Args& args, const std::string& name) {
   const std::string text = args.require(name);
   try {
-    return parse_time_utc(text);
+    return parse_time_utc(expand_date_only(text));
   } catch (const FieldError& e) {
     throw UsageError("option --" + name + " \"" + text + "\": " + e.what());
   }
@@ -89,17 +59,24 @@ void write_levels(std::ostream& out, const tide::TidePredictor& predictor, TimeS
 }  // namespace
 
 int run_tide_predict(const CommandArgs& argv) {
-  Args args(argv, {"help"});
-  if (args.flag("help")) {
-    std::cout << kPredictHelp;
-    return kExitOk;
-  }
+  Args args("strandline tide-predict --constituents FILE --from TIME --to TIME [--step-s SECONDS] [--out FILE]", "");
+  args.add_value("constituents", "FILE", "constituent file (JSON; see FORMATS.md, \"Tide constituents\")")
+      .add_value("from", "TIME",
+                 "UTC time with zone, e.g. 2020-01-01T00:00Z, or a date (2020-01-01 =\n"
+                 "midnight UTC); --from and --to are both included when on the step")
+      .add_value("to", "TIME", "end, as --from")
+      .add_value("step-s", "SECONDS", "spacing in seconds (default 600)")
+      .add_value("out", "FILE", "output CSV (default: standard output)")
+      .add_epilogue(
+          "Writes `time,level_m`: the astronomical tide on the file's datum, with nodal\n"
+          "corrections (Schureman 1958) evaluated at every time. Surge, river flow and\n"
+          "datum offsets are not included.\n");
+  if (!args.parse(argv)) return kExitOk;
   const std::string path = args.require("constituents");
   const TimeS from = time_option(args, "from");
   const TimeS to = time_option(args, "to");
   const double step_s = args.number_or("step-s", 600.0);
   const auto out_path = args.get("out");
-  args.finish();
   if (!(step_s > 0) || !std::isfinite(step_s)) throw UsageError("option --step-s: must be a positive number of seconds");
   if (to < from) throw UsageError("option --to is earlier than --from");
   if ((to - from) / step_s > 5e7) throw UsageError("more than 50 million output rows: use a larger --step-s");
@@ -119,11 +96,24 @@ int run_tide_predict(const CommandArgs& argv) {
 }
 
 int run_tide_fit(const CommandArgs& argv) {
-  Args args(argv, {"help", "fit-rate"});
-  if (args.flag("help")) {
-    std::cout << kFitHelp;
-    return kExitOk;
-  }
+  Args args("strandline tide-fit --water-levels FILE --out FILE [--constituents M2,S2,...]\n"
+            "                           [--rayleigh R] [--fit-rate] [--datum NAME]", "");
+  args.add_value("water-levels", "FILE", "gauge record CSV `time,level_m` (gaps and irregular spacing allowed)")
+      .add_value("out", "FILE", "constituent file to write (JSON)")
+      .add_value("constituents", "M2,S2,...", "candidates in priority order (default: 48 constituents, M2 first)")
+      .add_value("rayleigh", "R",
+                 "Rayleigh factor R (default 1): a candidate is fitted only when its\n"
+                 "speed differs from every constituent already admitted (and from\n"
+                 "the mean) by at least R cycles over the record span")
+      .add_switch("fit-rate", "also fit a linear rate of the mean level (needs years of record)")
+      .add_value("datum", "NAME", "datum name written to the file (default MSL)")
+      .add_epilogue(
+          "Least squares with the same nodal corrections as tide-predict. Writes per\n"
+          "constituent amplitude and phase with standard errors (white-noise residuals\n"
+          "assumed: optimistic when residuals are correlated), the constituents the\n"
+          "record cannot resolve, and the residual standard deviation, which becomes the\n"
+          "1-sigma of predicted water levels in `correct`. A summary goes to stderr.\n");
+  if (!args.parse(argv)) return kExitOk;
   const std::string gauge_path = args.require("water-levels");
   const std::string out_path = args.require("out");
   tide::HarmonicFitOptions options;
@@ -131,7 +121,6 @@ int run_tide_fit(const CommandArgs& argv) {
   options.rayleigh_factor = args.number_or("rayleigh", 1.0);
   options.fit_rate = args.flag("fit-rate");
   if (auto datum = args.get("datum")) options.datum = *datum;
-  args.finish();
   if (!(options.rayleigh_factor > 0) || options.rayleigh_factor > 10)
     throw UsageError("option --rayleigh: expected a factor in (0, 10]");
 

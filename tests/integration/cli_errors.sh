@@ -1,7 +1,10 @@
 #!/usr/bin/env bash
 # The batch CLI on bad input: exit code 2, a message naming file/line/field,
 # and no output file left behind (outputs are written atomically). Also checks
-# that --skip-invalid writes cleaned + rejected = input.
+# that --skip-invalid writes cleaned + rejected = input, and the option parser: -h, suggestions
+# for misspelt options, options checked before inputs, help matching the accepted options, ISO
+# dates for times, slope notation hints, `keys` on a missing database, `correct --check` and
+# the demo generator's own options.
 set -uo pipefail
 build="$1"
 exe="$build/server/strandline"
@@ -21,17 +24,20 @@ T1,2019-03-01T00:30:00Z,100.0,landsat8,a
 T1,2019-03-01T01:30:00Z,101.0,landsat8,b
 CSV
 
-# expect NAME EXPECTED_EXIT EXPECTED_MESSAGE_PART -- ARGS...
-expect() {
-  local name="$1" code="$2" message="$3"; shift 4
+# expect NAME EXPECTED_EXIT EXPECTED_MESSAGE_PART -- ARGS...   (message on standard error)
+# expect_stdout: the same with the message looked for on standard output.
+expect() { expect_in stderr "$@"; }
+expect_stdout() { expect_in stdout "$@"; }
+expect_in() {
+  local stream="$1" name="$2" code="$3" message="$4"; shift 5
   rm -f "$tmp/out.csv"
   "$exe" "$@" >"$tmp/stdout" 2>"$tmp/stderr"
   local got=$?
   if [[ $got -ne $code ]]; then
     echo "FAIL $name: exit $got, expected $code"; cat "$tmp/stderr"; failures=$((failures+1)); return
   fi
-  if ! grep -qF -- "$message" "$tmp/stderr"; then
-    echo "FAIL $name: message lacks '$message':"; cat "$tmp/stderr"; failures=$((failures+1)); return
+  if ! grep -qF -- "$message" "$tmp/$stream"; then
+    echo "FAIL $name: $stream lacks '$message':"; cat "$tmp/$stream"; failures=$((failures+1)); return
   fi
   if [[ $code -ne 0 && -e "$tmp/out.csv" ]]; then
     echo "FAIL $name: output file left behind"; failures=$((failures+1)); return
@@ -92,6 +98,73 @@ if [[ $cleaned -eq 2 && $rejected -eq 2 ]] && grep -q 'chainage_m,x,not a number
 else
   echo "FAIL skip_invalid_counts: cleaned $cleaned rejected $rejected"; cat "$tmp/out.rejected.csv"; failures=$((failures+1))
 fi
+
+# --- the option parser ---
+check() {  # check NAME CONDITION_STATUS DETAIL
+  if [[ $2 -eq 0 ]]; then echo "ok   $1"; passed=$((passed+1)); else echo "FAIL $1: $3"; failures=$((failures+1)); fi
+}
+base=(--observations "$tmp/good.csv" --water-levels "$tmp/wl.csv")
+expect_stdout short_help 0 'usage: strandline correct' -- correct -h
+expect_stdout short_help_tide 0 'usage: strandline tide-predict' -- tide-predict -h
+expect did_you_mean 2 'unknown option --observtions (did you mean --observations?)' -- \
+  correct --observtions "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv"
+# Every option is checked before any input is opened: an unknown option wins over a missing file.
+expect unknown_before_inputs 2 'unknown option --bogus' -- \
+  correct --observations "$tmp/absent/huge.csv" --water-levels "$tmp/absent/wl.csv" --slope 0.05 --out "$tmp/out.csv" --bogus 1
+expect slope_percent 2 'option --slope "8%": give tan(beta): 8% is 0.08' -- \
+  correct "${base[@]}" --slope 8% --out "$tmp/out.csv"
+expect slope_ratio 2 'option --slope "1:12": give tan(beta): 1:12 is 0.0833' -- \
+  correct "${base[@]}" --slope 1:12 --out "$tmp/out.csv"
+expect trend_from_date 0 'corrected 2 rows' -- \
+  correct "${base[@]}" --slope 0.05 --trend-from 2019-01-01 --trend-to 2019-12-31 --out "$tmp/out.csv" --summary "$tmp/summary.json"
+if grep -q '"2019-01-01T00:00:00Z"' "$tmp/summary.json" 2>/dev/null; then r=0; else r=1; fi
+check trend_from_date_is_midnight $r "summary lacks the trend window from 2019-01-01T00:00:00Z"
+
+# correct --check: validates and reports, runs nothing, writes nothing.
+expect_stdout check_only 0 'inputs valid: 2 rows on 1 transects; times 2019-03-01T00:30:00Z to 2019-03-01T01:30:00Z' -- \
+  correct "${base[@]}" --slope 0.05 --out "$tmp/out.csv" --summary "$tmp/check_summary.json" --check
+if [[ ! -e "$tmp/out.csv" && ! -e "$tmp/check_summary.json" ]]; then r=0; else r=1; fi
+check check_only_writes_nothing $r "--check wrote an output"
+expect check_bad_input 2 'bad_month.csv:2: time "2019-13-01T00:00Z": month out of range' -- \
+  correct --observations "$tmp/bad_month.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --check
+
+# `slope --help` lists only what `slope` accepts: each listed option (with its partner where it
+# needs one) passes every option check and the run stops at the absent observations file.
+"$exe" slope --help >"$tmp/slope_help" 2>&1
+refused=""
+while read -r option placeholder; do
+  case "$option" in --observations|--water-levels|--out|--help|-h,) continue ;; esac
+  case "$placeholder" in
+    FILE) extra=("$tmp/absent.file") ;;
+    MIN:MAX) extra=(0.01:0.2) ;;
+    MODE) extra=(setup --waves "$tmp/absent.file") ;;
+    TIME) extra=(2019-01-01) ;;
+    auto) extra=(auto) ;;
+    [A-Z]*) extra=(0.05) ;;
+    *) extra=() ;;
+  esac
+  [[ "$option" == --default-slope-sigma ]] && extra+=(--default-slope 0.1)
+  "$exe" slope --observations "$tmp/absent.csv" --water-levels "$tmp/wl.csv" --out "$tmp/x.json" \
+    "$option" "${extra[@]}" >/dev/null 2>"$tmp/stderr"
+  grep -q 'cannot open' "$tmp/stderr" || refused+=" $option($(head -1 "$tmp/stderr"))"
+done < <(grep -oE '^  --[a-z-]+( [A-Za-z:|]+)?' "$tmp/slope_help")
+[[ -z "$refused" && -s "$tmp/slope_help" ]]; check slope_help_matches_options $? "listed but refused:$refused"
+
+# keys: a database that does not exist is refused, not created.
+expect keys_missing_db 2 'does not exist' -- keys list --db "$tmp/typo.db"
+[[ ! -e "$tmp/typo.db" ]]; check keys_missing_db_not_created $? "keys created $tmp/typo.db"
+
+# The demo generator has a real parser: --help prints help and writes nothing.
+gen="$build/demo_data/strandline-demo-gen"
+(cd "$tmp" && "$gen" --help >"$tmp/gen_help" 2>&1); code=$?
+[[ $code -eq 0 && ! -e "$tmp/--help" ]] && grep -q 'OUTDIR' "$tmp/gen_help"; check demo_gen_help $? "exit $code; $(head -2 "$tmp/gen_help")"
+(cd "$tmp" && "$gen" "$tmp/site" --transects 2 --bogus >/dev/null 2>&1); code=$?
+[[ $code -eq 2 && ! -e "$tmp/site" ]]; check demo_gen_unknown_option $? "exit $code"
+
+# tide-predict takes a date alone as midnight UTC (the demo site ships a constituent file).
+"$gen" "$tmp/site" --transects 2 >/dev/null 2>&1
+expect_stdout tide_predict_date 0 '2020-01-01T01:00:00Z,' -- \
+  tide-predict --constituents "$tmp/site/tide_constituents.json" --from 2020-01-01 --to 2020-01-01T01:00Z --step-s 3600
 
 echo "$passed passed, $failures failed"
 [[ $failures -eq 0 ]]

@@ -66,8 +66,9 @@ expect unknown_constituent 2 'unknown.json: /constituents/1/name "Q7": unknown c
 printf '{"constituents": [{"name": "M2", "phase_deg": 0}]}' > "$tmp/missing.json"
 expect missing_field 2 'missing.json: /constituents/0/amplitude_m "": missing required field' -- \
   tide-predict --constituents "$tmp/missing.json" --from 2020-01-01T00:00Z --to 2020-01-02T00:00Z
-expect bad_time 2 'option --from "2020-01-01"' -- \
-  tide-predict --constituents "$tmp/c.json" --from 2020-01-01 --to 2020-01-02T00:00Z
+# A date alone is midnight UTC; a time without a zone is still refused.
+expect bad_time 2 'option --from "2020-01-01T00:00": missing zone designator' -- \
+  tide-predict --constituents "$tmp/c.json" --from 2020-01-01T00:00 --to 2020-01-02T00:00Z
 head -8 "$tmp/full.csv" > "$tmp/short.csv"  # two hours: under one M8 cycle
 expect short_record 2 'resolves no tidal constituent' -- tide-fit --water-levels "$tmp/short.csv" --out "$tmp/x.json"
 expect unknown_fit_name 2 'constituent "ZZ9" is unknown' -- tide-fit --water-levels "$tmp/gauge.csv" \
