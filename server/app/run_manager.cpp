@@ -74,9 +74,12 @@ void RunManager::work() {
 }
 
 void RunManager::execute(std::int64_t run_id) {
+  RunEnded ended;
+  ended.run_id = run_id;
   try {
     const auto run = store_.run(run_id);
     if (!run) return;
+    ended.site_id = run->site_id;
     const auto transects = transects_in_scope(store_, *run);
     store_.mark_run_started(run_id, static_cast<std::int64_t>(transects.size()));
     {
@@ -88,13 +91,19 @@ void RunManager::execute(std::int64_t run_id) {
       running_[run_id] = {static_cast<std::int64_t>(done), static_cast<std::int64_t>(total)};
     });
     store_.finish_run(run_id, output.provenance, output.results);
-    if (on_run_ended_) on_run_ended_("done");
+    ended.state = "done";
+    for (const auto& r : output.results) ended.transects.push_back(r.transect_id);
   } catch (const std::exception& e) {
     try {
       store_.mark_run_failed(run_id, e.what());
     } catch (...) {
     }
-    if (on_run_ended_) on_run_ended_("failed");
+    ended.state = "failed";
+  }
+  if (!on_run_ended_) return;
+  try {
+    on_run_ended_(ended);
+  } catch (...) {  // an observer's failure is not the run's
   }
 }
 

@@ -11,6 +11,7 @@
 #include <map>
 #include <mutex>
 #include <optional>
+#include <string>
 #include <thread>
 #include <vector>
 
@@ -25,8 +26,15 @@ struct RunProgress {
 
 class RunManager {
  public:
-  // Told of every run that ends, with its final state ("done" or "failed").
-  using RunEndedFn = std::function<void(const std::string& state)>;
+  // What a run that ended left: its final state ("done" or "failed") and, when
+  // done, the transects it stored results for. Called on the run's worker thread.
+  struct RunEnded {
+    std::int64_t run_id = 0;
+    std::string site_id;
+    std::string state;
+    std::vector<std::string> transects;
+  };
+  using RunEndedFn = std::function<void(const RunEnded&)>;
 
   RunManager(store::Store& store, RunEndedFn on_run_ended, unsigned workers, std::size_t max_queued);
   ~RunManager();  // finishes the active runs, leaves queued ones for fail_interrupted_runs

@@ -4,18 +4,32 @@ namespace strandline::http {
 
 RenderedSeriesCache::Document RenderedSeriesCache::get_or_render(const std::string& key,
                                                                  const std::function<std::string()>& render) {
+  std::promise<Document> promise;
   {
-    std::lock_guard lock(mutex_);
+    std::unique_lock lock(mutex_);
     if (auto it = by_key_.find(key); it != by_key_.end()) {
       entries_.splice(entries_.begin(), entries_, it->second);
       return it->second->document;
     }
+    if (auto it = rendering_.find(key); it != rendering_.end()) {
+      auto pending = it->second;
+      lock.unlock();
+      return pending.get();
+    }
+    rendering_.emplace(key, promise.get_future().share());
   }
-  // Rendered outside the lock: two readers of a new document may both render
-  // it (the same bytes), which is cheaper than serialising every miss.
-  auto document = std::make_shared<const std::string>(render());
+  Document document;
+  try {
+    document = std::make_shared<const std::string>(render());
+  } catch (...) {
+    promise.set_exception(std::current_exception());
+    std::lock_guard lock(mutex_);
+    rendering_.erase(key);
+    throw;
+  }
+  promise.set_value(document);
   std::lock_guard lock(mutex_);
-  if (auto it = by_key_.find(key); it != by_key_.end()) return it->second->document;
+  rendering_.erase(key);
   if (document->size() > max_bytes_) return document;
   entries_.push_front({key, document});
   by_key_[key] = entries_.begin();

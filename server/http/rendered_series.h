@@ -6,6 +6,7 @@
 
 #include <cstdint>
 #include <functional>
+#include <future>
 #include <list>
 #include <memory>
 #include <mutex>
@@ -20,7 +21,10 @@ class RenderedSeriesCache {
 
   explicit RenderedSeriesCache(std::size_t max_bytes) : max_bytes_(max_bytes) {}
 
-  // The cached document under `key`, or `render()`'s, stored before it is returned.
+  // The cached document under `key`, or `render()`'s, stored before it is
+  // returned. One render per key at a time: concurrent readers of a document
+  // being rendered wait for it (after a run, every client asks for the new
+  // documents at once). A render that throws is not cached; its waiters see the error.
   Document get_or_render(const std::string& key, const std::function<std::string()>& render);
   std::size_t bytes() const;
 
@@ -33,6 +37,7 @@ class RenderedSeriesCache {
   mutable std::mutex mutex_;
   std::list<Entry> entries_;  // most recent first
   std::unordered_map<std::string, std::list<Entry>::iterator> by_key_;
+  std::unordered_map<std::string, std::shared_future<Document>> rendering_;
   std::size_t bytes_ = 0;
 };
 

@@ -133,8 +133,12 @@ void reply_document(Context& c, const std::string& etag, RenderedSeriesCache::Do
 Service::Impl::Impl(store::Store& store, ServiceOptions options)
     : store(store),
       options(options),
-      runs(store, [this](const std::string& state) { metrics.count_run(state); }, options.run_workers,
-           options.max_queued_runs) {}
+      runs(store,
+           [this](const app::RunManager::RunEnded& run) {
+             metrics.count_run(run.state);
+             warm_series_cache(*this, run);
+           },
+           options.run_workers, options.max_queued_runs) {}
 
 void Service::Impl::dispatch(const Route& route, const httplib::Request& req, httplib::Response& res) {
   const auto start = std::chrono::steady_clock::now();

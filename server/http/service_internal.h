@@ -73,6 +73,13 @@ struct Service::Impl {
   void dispatch(const Route& route, const httplib::Request& req, httplib::Response& res);
 };
 
+// A transect's series of one run as sent (JSON or CSV, identity or gzip), from the cache.
+RenderedSeriesCache::Document series_document(Service::Impl& service, const std::string& site_id,
+                                              const std::string& transect, std::int64_t run_id,
+                                              const std::string& format, bool gzip);
+// Renders the gzip documents of a finished run ahead of the first reader.
+void warm_series_cache(Service::Impl& service, const app::RunManager::RunEnded& run);
+
 // Renders a problem into the response.
 void write_problem(httplib::Response& res, const Problem& p, const std::string& instance);
 
