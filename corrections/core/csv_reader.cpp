@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "corrections/core/errors.h"
+#include "corrections/core/utf8_text.h"
 
 namespace strandline {
 
@@ -124,15 +125,25 @@ std::size_t CsvHeader::require(std::string_view name) const {
 CsvTable::CsvTable(std::istream& in, const std::string& file) : reader_(in, file) {
   std::vector<std::string> names;
   if (!reader_.next(names)) throw InputError(file, 0, "", "", "empty file: expected a header line");
+  for (std::size_t i = 0; i < names.size(); ++i)
+    if (auto fault = text_fault(names[i]))
+      throw InputError(file, reader_.line(), "header column " + std::to_string(i + 1), printable_text(names[i]),
+                       fault->reason);
   header_.emplace(names, file);
 }
 
 bool CsvTable::next(std::vector<std::string>& fields) {
   if (!reader_.next(fields)) return false;
-  if (fields.size() != header_->names().size())
+  const auto& names = header_->names();
+  if (fields.size() != names.size())
     throw InputError(reader_.name(), reader_.line(), "", "",
-                     "expected " + std::to_string(header_->names().size()) + " fields as in the header, found " +
+                     "expected " + std::to_string(names.size()) + " fields as in the header, found " +
                          std::to_string(fields.size()));
+  // Every field is text that may reach a reply, a log or the store: UTF-8
+  // without control characters (a quoted field may hold line breaks).
+  for (std::size_t i = 0; i < fields.size(); ++i)
+    if (auto fault = text_fault(fields[i], true))
+      throw InputError(reader_.name(), reader_.line(), names[i], printable_text(fields[i]), fault->reason);
   return true;
 }
 

@@ -58,7 +58,8 @@ class CsvTable {
  public:
   CsvTable(std::istream& in, const std::string& file);
   const CsvHeader& header() const { return *header_; }
-  // Next data record; throws InputError when its field count differs from the header's.
+  // Next data record; throws InputError when its field count differs from the
+  // header's or a field is not UTF-8 text (utf8_text.h), naming the column.
   bool next(std::vector<std::string>& fields);
   std::int64_t line() const { return reader_.line(); }
   const std::string& file() const { return reader_.name(); }

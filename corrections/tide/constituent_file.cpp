@@ -6,6 +6,7 @@
 
 #include "corrections/core/errors.h"
 #include "corrections/tide/constituent_table.h"
+#include "corrections/core/json_text.h"
 
 namespace strandline::tide {
 
@@ -125,13 +126,7 @@ ConstituentSet parse_constituent_json(const json& document, const std::string& f
 }
 
 ConstituentSet read_constituent_file(std::istream& in, const std::string& file) {
-  json document;
-  try {
-    document = json::parse(in);
-  } catch (const json::exception& e) {  // syntax errors and number overflow alike
-    throw InputError(file + ": not valid JSON: " + e.what());
-  }
-  return parse_constituent_json(document, file);
+  return parse_constituent_json(parse_json_stream(in, file), file);
 }
 
 ConstituentSet read_constituent_file(const std::string& path) {

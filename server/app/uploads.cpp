@@ -7,6 +7,7 @@
 #include <nlohmann/json.hpp>
 
 #include "corrections/core/errors.h"
+#include "corrections/core/json_text.h"
 #include "corrections/tide/constituent_file.h"
 #include "server/app/upload_rows.h"
 #include "server/io/observation_rules.h"
@@ -62,6 +63,8 @@ void check_against_stored_images(store::Store& store, const std::string& site_id
 // The shared tail: refuse (reject mode) or keep the invalid rows, then store.
 template <class Row, class Store>
 UploadReport finish(ParsedUpload<Row>& parsed, UploadRequest& request, Store store_rows) {
+  // An upload without rows would be recorded as an event that changed nothing.
+  if (parsed.received == 0) throw InputError("body", 0, "", "", "no data rows: an upload holds at least one row");
   if (!parsed.invalid.empty() && request.on_invalid == OnInvalid::reject)
     throw InvalidRows(std::move(parsed.invalid), parsed.received);
   if (parsed.record_problem) throw InputError("body", 0, "", "", *parsed.record_problem);
@@ -107,9 +110,9 @@ store::UploadResult upload_tide_constituents(store::Store& store, const std::str
                                              const std::string& body, store::UploadMeta meta) {
   nlohmann::json document;
   try {
-    document = nlohmann::json::parse(body);
-  } catch (const nlohmann::json::parse_error& e) {
-    throw BodyError(std::string("body: not valid JSON: ") + e.what(), "", true);
+    document = parse_json_text(body, "body");
+  } catch (const JsonTextError& e) {
+    throw BodyError(e.what(), "", true);
   }
   tide::parse_constituent_json(document, "body");
   meta.received = 1;

@@ -13,6 +13,7 @@
 #include "server/io/transect_params_csv.h"
 #include "server/io/water_level_csv.h"
 #include "server/io/wave_csv.h"
+#include "corrections/core/json_text.h"
 
 namespace strandline::cli {
 
@@ -21,11 +22,7 @@ namespace {
 nlohmann::json read_config_file(const std::string& path) {
   std::ifstream in(path);
   if (!in) throw InputError(path, 0, "", "", "cannot open file");
-  try {
-    return nlohmann::json::parse(in);
-  } catch (const nlohmann::json::parse_error& e) {
-    throw InputError(path, 0, "", "", std::string("not valid JSON: ") + e.what());
-  }
+  return parse_json_stream(in, path);
 }
 
 void record_file(app::RunMaterial& material, const std::string& role, const std::string& path) {

@@ -17,6 +17,7 @@
 #include "server/geo/transect_reader.h"
 #include "server/io/observations_csv.h"
 #include "server/geo/result_writer.h"
+#include "corrections/core/json_text.h"
 
 namespace strandline::cli {
 
@@ -227,12 +228,7 @@ int run_geoexport(const CommandArgs& argv) {
   if (summary_path) {
     std::ifstream in(*summary_path);
     if (!in) throw InputError(*summary_path + ": cannot open");
-    nlohmann::json j;
-    try {
-      j = nlohmann::json::parse(in);
-    } catch (const nlohmann::json::parse_error& e) {
-      throw InputError(*summary_path + ": not JSON (" + e.what() + ")");
-    }
+    const nlohmann::json j = parse_json_stream(in, *summary_path);
     summary = geo::summary_plain_table(j, *summary_path);
   }
   layers.points = &points;

@@ -25,6 +25,7 @@
 #include "server/app/uploads.h"
 #include "server/http/upload_rows.h"
 #include "server/store/api_keys.h"
+#include "corrections/core/json_text.h"
 
 namespace strandline::http {
 
@@ -191,8 +192,8 @@ std::string shoreline_collection(const Context& c) {
                       c.req.get_header_value("Content-Type") + "\"");
   nlohmann::json body;
   try {
-    body = nlohmann::json::parse(c.req.body);
-  } catch (const nlohmann::json::parse_error& e) {
+    body = parse_json_text(c.req.body, "body");
+  } catch (const JsonTextError& e) {
     throw Problem(400, problem_type::bad_json, "Malformed JSON", e.what());
   }
   if (!body.is_object() || body.value("type", "") != "FeatureCollection" || !body.contains("features") ||

@@ -8,6 +8,8 @@
 #include <string>
 #include <string_view>
 
+#include "corrections/core/utf8_text.h"  // printable_text, for messages about ids
+
 namespace strandline {
 
 inline constexpr std::size_t kMaxIdBytes = 128;
@@ -15,8 +17,5 @@ inline constexpr std::size_t kMaxIdBytes = 128;
 // Why `id` is not a valid identifier ("transect id", "image id" in `what`), or nothing.
 std::optional<std::string> id_problem(std::string_view id, std::string_view what, bool names_a_path = false);
 
-// `text` with every byte that is not valid UTF-8, and every control character,
-// written as \xNN: safe to show in a message, a JSON reply or a log.
-std::string printable_text(std::string_view text);
 
 }  // namespace strandline

@@ -4,6 +4,7 @@
 
 #include "corrections/core/errors.h"
 #include "server/io/transect_params_csv.h"
+#include "corrections/core/json_text.h"
 
 namespace strandline {
 
@@ -44,12 +45,7 @@ nlohmann::json slopes_json(const SiteTable& table, const SlopePlan& plan) {
 }
 
 std::unordered_map<std::string, SlopeValue> read_slopes_json(std::istream& in, const std::string& file) {
-  nlohmann::json doc;
-  try {
-    doc = nlohmann::json::parse(in);
-  } catch (const nlohmann::json::parse_error& e) {
-    throw InputError(file, 0, "", "", std::string("not valid JSON: ") + e.what());
-  }
+  const nlohmann::json doc = parse_json_stream(in, file);
   auto fail = [&](const std::string& pointer, const nlohmann::json& value, const std::string& reason) -> void {
     throw InputError(file, 0, pointer, value.is_string() ? value.get<std::string>() : value.dump(), reason);
   };

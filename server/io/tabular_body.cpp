@@ -7,6 +7,7 @@
 #include <nlohmann/json.hpp>
 
 #include "corrections/core/csv_reader.h"
+#include "corrections/core/json_text.h"
 
 namespace strandline {
 
@@ -46,10 +47,12 @@ void TabularBody::for_each(const RowFn& fn) {
       try {
         if (!table.next(fields)) break;
       } catch (const InputError& e) {
-        // A malformed record (field count or quoting): report it as a bad row.
-        // An unterminated quote swallows the rest of the body, so stop there.
+        // A malformed record (field count, quoting, text that is not UTF-8):
+        // report it as a bad row. An unterminated quote swallows the rest of
+        // the body, so stop there.
         source.line = e.line > 0 ? e.line : table.line();
         source.problem = e.reason.empty() ? e.what() : e.reason;
+        source.problem_field = e.field;
         fn({}, source);
         if (e.reason.find("quote") != std::string::npos) break;
         continue;
@@ -62,9 +65,9 @@ void TabularBody::for_each(const RowFn& fn) {
 
   nlohmann::json document;
   try {
-    document = nlohmann::json::parse(body_.begin(), body_.end());
-  } catch (const nlohmann::json::parse_error& e) {
-    throw BodyError(std::string("body: not valid JSON: ") + e.what(), "", true);
+    document = parse_json_text(body_, "body");
+  } catch (const JsonTextError& e) {
+    throw BodyError(e.what(), "", true);
   }
   const nlohmann::json* rows = &document;
   if (document.is_object()) {

@@ -66,11 +66,25 @@ expect unlisted_transect 2 'no slope for transect(s) T1' -- \
   correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slopes "$tmp/slopes.csv" --out "$tmp/out.csv"
 expect slope_and_slopes 2 'give either --slope VALUE' -- \
   correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --slopes "$tmp/slopes.csv" --out "$tmp/out.csv"
+# 100,000 nested arrays overflowed the stack before (exit 139); now a message with line and column.
+deep=$(printf '%*s' 100000 '' | tr ' ' '[')
+printf '{"slopes": %s' "$deep" > "$tmp/deep_slopes.json"
+expect deep_slopes_json 2 'deep_slopes.json: line 1, column 75: arrays and objects nested deeper than 64 levels' -- \
+  correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slopes "$tmp/deep_slopes.json" --out "$tmp/out.csv"
+printf '%s' "$deep" > "$tmp/deep_tide.json"
+expect deep_tide_json 2 'deep_tide.json: line 1, column 65: arrays and objects nested deeper than 64 levels' -- \
+  correct --observations "$tmp/good.csv" --tide-constituents "$tmp/deep_tide.json" --slope 0.05 --out "$tmp/out.csv"
+printf '{"steps": %s' "$deep" > "$tmp/deep_config.json"
+expect deep_config_json 2 'nested deeper than 64 levels' -- \
+  correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --config "$tmp/deep_config.json" --out "$tmp/out.csv"
+printf 'transect_id,time,chainage_m,sensor,image_id\nT1,2019-03-01T00:30:00Z,100.0,landsat8,caf\xe9\n' > "$tmp/latin1.csv"
+expect latin1_image_id 2 'latin1.csv:2: image_id "caf\xE9": invalid UTF-8 byte 0xE9' -- \
+  correct --observations "$tmp/latin1.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv"
 echo '{"steps": {"hampel_filter": {}}}' > "$tmp/config.json"
 expect unknown_step 2 'configuration /steps/hampel_filter: unknown step' -- \
   correct --config "$tmp/config.json" --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv"
 echo '{"steps": ' > "$tmp/broken.json"
-expect broken_json 2 'broken.json: not valid JSON' -- \
+expect broken_json 2 'broken.json: line 2, column 1: not valid JSON' -- \
   correct --config "$tmp/broken.json" --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv"
 expect no_water_levels 2 'no water levels' -- \
   correct --observations "$tmp/good.csv" --slope 0.05 --out "$tmp/out.csv"
