@@ -1,12 +1,14 @@
 #include "server/geo/crs.h"
 
 #include <cmath>
+#include <regex>
 #include <sstream>
 
 #include <ogr_spatialref.h>
 #include <proj.h>
 
 #include "corrections/core/errors.h"
+#include "corrections/core/utf8_text.h"
 #include "server/geo/gdal_support.h"
 
 namespace strandline::geo {
@@ -20,6 +22,19 @@ CrsInfo parse_crs(const std::string& text, const std::string& context) {
     throw InputError(context + " \"" + text + "\": not a coordinate reference system "
                      "(give an EPSG code, WKT or a PROJ string)");
   return crs_info_from(srs);
+}
+
+CrsInfo parse_site_crs(const std::string& text, const std::string& context) {
+  static const std::regex authority_code(R"(^([A-Za-z][A-Za-z0-9_]*:)?[0-9]{1,9}$)");
+  static const std::regex wkt_opening(R"(^\s*[A-Za-z_0-9]+\s*\[)");
+  static const std::regex file_reference(R"(PARAMETERFILE|\+[a-z_]*grids?\b|\+init\b|@)", std::regex::icase);
+  const bool code = std::regex_match(text, authority_code);
+  if (!code && !std::regex_search(text, wkt_opening))
+    throw InputError(context + " \"" + printable_text(text) +
+                     "\": a site CRS is an authority code (e.g. EPSG:32631) or WKT; PROJ strings are not accepted");
+  if (!code && std::regex_search(text, file_reference))
+    throw InputError(context + ": a site CRS may not refer to files (PARAMETERFILE, grids); give an authority code");
+  return parse_crs(text, context);
 }
 
 int utm_zone_number(double lon_deg) {

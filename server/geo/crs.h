@@ -25,6 +25,12 @@ struct CrsInfo {
 // (e.g. "--crs") when the text is not a CRS.
 CrsInfo parse_crs(const std::string& text, const std::string& context);
 
+// A CRS stored with a site and used by every later run: an authority code
+// ("EPSG:32631", "32631") or WKT that names no file (no PARAMETERFILE, no
+// grid). PROJ strings are refused: "+nadgrids=/path" would make the service
+// open a file of the caller's choosing. Throws InputError naming `context`.
+CrsInfo parse_site_crs(const std::string& text, const std::string& context);
+
 // The WGS 84 / UTM zone containing a longitude/latitude (EPSG 326zz north,
 // 327zz south); the standard 6-degree zones without the Norway/Svalbard
 // exceptions.

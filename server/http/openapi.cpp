@@ -34,15 +34,16 @@ json errors(std::initializer_list<int> codes) {
   for (int code : codes) {
     static const std::map<int, std::string> text = {
         {304, "Not modified (If-None-Match matched the ETag)"},
-        {400, "Bad request: malformed JSON or query parameter"},
-        {401, "Missing or unknown API key"},
-        {403, "Read-only key used for a write"},
+        {400, "Bad request: malformed or too deeply nested JSON, a path or query parameter that is not text, conflicting framing headers"},
+        {401, "Missing, unknown, revoked or expired API key"},
+        {403, "Read-only key used for a write, or a site-scoped key outside its site"},
         {404, "Unknown site, transect, upload or run"},
         {409, "Conflict with stored data; nothing stored"},
         {413, "Body larger than the configured limit"},
-        {415, "Unsupported Content-Type"},
+        {415, "Unsupported Content-Type or a Content-Encoding other than identity"},
         {422, "Schema violation or invalid rows (every bad row listed); nothing stored"},
-        {503, "Over the concurrent-request limit or run queue full; see Retry-After"}};
+        {503, "Over the concurrent-request limit or run queue full; see Retry-After"},
+        {507, "The store is full; nothing of the request was stored"}};
     r[std::to_string(code)] = code == 304 ? json{{"description", text.at(code)}} : problem_response(text.at(code));
   }
   return r;
@@ -68,7 +69,7 @@ json upload_operation(const std::string& summary, const std::string& schema) {
                                                   {{"type", "string"}, {"enum", {"reject", "skip"}}})})},
           {"requestBody", upload_body(schema)},
           {"responses", merge({{"201", json_response("Stored (or reported as duplicates)", "UploadReport")}},
-                              errors({400, 401, 403, 404, 409, 413, 415, 422, 503}))}};
+                              errors({400, 401, 403, 404, 409, 413, 415, 422, 503, 507}))}};
 }
 
 json rows_schema(const std::string& key, json properties, json required) {
@@ -99,7 +100,7 @@ json build() {
                                       {"responses", {{"200", {{"description", "OpenAPI 3.0 document"}}}}}};
   paths["/v1/sites"]["post"] = {{"summary", "Create a site"}, {"security", write_security},
                                 {"requestBody", {{"required", true}, {"content", {{"application/json", {{"schema", ref("SiteCreate")}}}}}}},
-                                {"responses", merge({{"201", json_response("Created", "Site")}}, errors({400, 401, 403, 409, 415, 422, 503}))}};
+                                {"responses", merge({{"201", json_response("Created", "Site")}}, errors({400, 401, 403, 409, 415, 422, 503, 507}))}};
   paths["/v1/sites"]["get"] = {{"summary", "List sites (paged by id)"}, {"security", read_security}, {"parameters", paging},
                                {"responses", merge({{"200", json_response("A page of sites", "SitePage")}}, errors({400, 401, 503}))}};
   paths["/v1/sites/{site}"]["get"] = {{"summary", "One site"}, {"security", read_security}, {"parameters", json::array({site})},
@@ -109,7 +110,7 @@ json build() {
       {"security", write_security}, {"parameters", json::array({site})},
       {"requestBody", {{"required", true}, {"content", {{"application/json", {{"schema", ref("FeatureCollection")}}}}}}},
       {"responses", merge({{"200", json_response("Transects stored (in the site CRS)", "FeatureCollection")}},
-                          errors({400, 401, 403, 404, 413, 415, 422, 503}))}};
+                          errors({400, 401, 403, 404, 413, 415, 422, 503, 507}))}};
   paths["/v1/sites/{site}/transects"]["get"] = {{"summary", "The transects of a site"}, {"security", read_security},
                                                 {"parameters", json::array({site})},
                                                 {"responses", merge({{"200", json_response("Transects", "FeatureCollection")}}, errors({304, 401, 404, 503}))}};
@@ -123,7 +124,7 @@ json build() {
       {"parameters", json::array({site})},
       {"requestBody", {{"required", true}, {"content", {{"application/json", {{"schema", {{"type", "object"}}}}}}}}},
       {"responses", merge({{"201", json_response("Stored", "UploadReport")}, {"200", json_response("Already stored (same content)", "UploadReport")}},
-                          errors({400, 401, 403, 404, 413, 415, 422, 503}))}};
+                          errors({400, 401, 403, 404, 413, 415, 422, 503, 507}))}};
   paths["/v1/sites/{site}/uploads"]["get"] = {{"summary", "Uploads, newest first (paged)"}, {"security", read_security},
                                               {"parameters", json::array({site, paging[0], paging[1]})},
                                               {"responses", merge({{"200", json_response("A page of uploads", "UploadPage")}}, errors({304, 400, 401, 404, 503}))}};
@@ -134,17 +135,17 @@ json build() {
       {"summary", "Retract an upload: its rows leave future runs; who, when and why are recorded; nothing is erased until a purge"},
       {"security", write_security},
       {"parameters", json::array({site, path_param("upload", "upload id"), query_param("reason", "why (or a JSON body {\"reason\": ...})")})},
-      {"responses", merge({{"200", json_response("Retracted", "Upload")}}, errors({400, 401, 403, 404, 409, 415, 422, 503}))}};
+      {"responses", merge({{"200", json_response("Retracted", "Upload")}}, errors({400, 401, 403, 404, 409, 415, 422, 503, 507}))}};
   paths["/v1/sites/{site}/purge"]["post"] = {{"summary", "Physically erase the rows of retracted uploads"}, {"security", write_security},
                                              {"parameters", json::array({site})},
-                                             {"responses", merge({{"200", json_response("Rows erased", "PurgeReport")}}, errors({401, 403, 404, 503}))}};
+                                             {"responses", merge({{"200", json_response("Rows erased", "PurgeReport")}}, errors({401, 403, 404, 503, 507}))}};
   paths["/v1/sites/{site}/runs"]["post"] = {
       {"summary", "Start a run (body: the batch --config JSON; empty = the site's processing defaults)"},
       {"security", write_security},
       {"parameters", json::array({site, query_param("transects", "changed (default): only transects with new inputs since the last finished run; all",
                                                     {{"type", "string"}, {"enum", {"changed", "all"}}})})},
       {"requestBody", {{"required", false}, {"content", {{"application/json", {{"schema", {{"type", "object"}}}}}}}}},
-      {"responses", merge({{"202", json_response("Queued; poll the Location", "Run")}}, errors({400, 401, 403, 404, 415, 422, 503}))}};
+      {"responses", merge({{"202", json_response("Queued; poll the Location", "Run")}}, errors({400, 401, 403, 404, 415, 422, 503, 507}))}};
   paths["/v1/sites/{site}/runs"]["get"] = {{"summary", "Runs of a site, newest first (paged)"}, {"security", read_security},
                                            {"parameters", json::array({site, paging[0], paging[1]})},
                                            {"responses", merge({{"200", json_response("A page of runs", "RunPage")}}, errors({304, 400, 401, 404, 503}))}};

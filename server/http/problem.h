@@ -25,6 +25,7 @@ inline constexpr const char* unsupported_media_type = "/problems/unsupported-med
 inline constexpr const char* invalid_rows = "/problems/invalid-rows";
 inline constexpr const char* invalid_body = "/problems/invalid-body";
 inline constexpr const char* invalid_config = "/problems/invalid-run-options";
+inline constexpr const char* insufficient_storage = "/problems/insufficient-storage";
 inline constexpr const char* overloaded = "/problems/overloaded";
 inline constexpr const char* internal = "/problems/internal-error";
 }  // namespace problem_type

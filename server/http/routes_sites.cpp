@@ -65,7 +65,7 @@ store::Site site_from_json(const nlohmann::json& body) {
   s.name = body["name"];
   s.crs = body["crs"];
   try {
-    const auto crs = geo::parse_crs(s.crs, "/crs");
+    const auto crs = geo::parse_site_crs(s.crs, "/crs");
     if (!crs.projected) throw schema_problem("/crs", "the site CRS must be projected (metres), e.g. a UTM zone");
   } catch (const InputError& e) {
     throw schema_problem("/crs", e.what());

@@ -5,32 +5,20 @@
 #include <sys/socket.h>
 
 #include "corrections/core/errors.h"
+#include "corrections/core/json_text.h"
+#include "corrections/core/utf8_text.h"
 #include "server/http/service_internal.h"
-#include "server/store/api_keys.h"
 
 namespace strandline::http {
 
 namespace {
 
-std::vector<Route> all_routes() {
-  std::vector<Route> out;
-  for (auto part : {meta_routes(), site_routes(), upload_routes(), run_routes(), geodata_routes()})
-    out.insert(out.end(), part.begin(), part.end());
-  return out;
-}
 
 // /v1/sites/{site} -> ^/v1/sites/([^/]+)$ (cpp-httplib matches the decoded path).
 std::string route_regex(const std::string& path) {
   static const std::regex param(R"(\{[a-z_]+\})");
   std::string escaped = std::regex_replace(path, std::regex(R"([.])"), R"(\.)");
   return std::regex_replace(escaped, param, "([^/]+)");
-}
-
-std::string bearer_token(const httplib::Request& req) {
-  const std::string h = req.get_header_value("Authorization");
-  const std::string scheme = "Bearer ";
-  if (h.size() <= scheme.size() || h.compare(0, scheme.size(), scheme) != 0) return {};
-  return h.substr(scheme.size());
 }
 
 struct InFlight {
@@ -40,11 +28,31 @@ struct InFlight {
   ~InFlight() { --n; }
 };
 
+// Replies are JSON text whatever a message quotes: bytes that are not UTF-8 become U+FFFD.
+std::string json_text(const nlohmann::json& body) {
+  return body.dump(-1, ' ', false, nlohmann::json::error_handler_t::replace);
+}
+
 }  // namespace
+
+const std::vector<Route>& route_table() {
+  static const std::vector<Route> table = [] {
+    std::vector<Route> out;
+    for (auto part : {meta_routes(), site_routes(), upload_routes(), run_routes(), geodata_routes()})
+      out.insert(out.end(), part.begin(), part.end());
+    return out;
+  }();
+  return table;
+}
+
+void log_internal_error(const httplib::Request& req, const std::string& what) {
+  std::cerr << "strandline serve: " << req.method << " " << printable_text(req.path)
+            << ": internal error: " << printable_text(what) << "\n";
+}
 
 void write_problem(httplib::Response& res, const Problem& p, const std::string& instance) {
   res.status = p.status;
-  res.set_content(p.to_json(instance).dump(), kProblemContentType);
+  res.set_content(json_text(p.to_json(printable_text(instance))), kProblemContentType);
 }
 
 std::optional<std::string> Context::query(const std::string& name) const {
@@ -75,15 +83,15 @@ nlohmann::json Context::json_body() const {
     throw Problem(415, problem_type::unsupported_media_type, "Unsupported media type",
                   "expected Content-Type application/json, got \"" + type + "\"");
   try {
-    return nlohmann::json::parse(req.body);
-  } catch (const nlohmann::json::parse_error& e) {
+    return parse_json_text(req.body, "body");
+  } catch (const JsonTextError& e) {
     throw Problem(400, problem_type::bad_json, "Malformed JSON", e.what());
   }
 }
 
 void Context::reply(int status, const nlohmann::json& body) {
   res.status = status;
-  res.set_content(body.dump(), "application/json");
+  res.set_content(json_text(body), "application/json");
 }
 
 void Context::reply_text(int status, std::string body, const std::string& content_type) {
@@ -152,24 +160,8 @@ void Service::Impl::dispatch(const Route& route, const httplib::Request& req, ht
                     "more than " + std::to_string(options.max_concurrent_requests) +
                         " requests in progress; retry after " + std::to_string(options.retry_after_s) + " s");
     }
-    const bool needs_key = route.access == Access::write || (route.access == Access::read && options.read_key_required);
-    const std::string token = bearer_token(req);
-    if (needs_key || !token.empty()) {
-      if (token.empty()) {
-        res.set_header("WWW-Authenticate", "Bearer");
-        throw Problem(401, problem_type::unauthorized, "Unauthorized",
-                      "this request needs an API key: Authorization: Bearer <key>");
-      }
-      auto key = store::verify_api_key(store, token);
-      if (!key) {
-        res.set_header("WWW-Authenticate", "Bearer error=\"invalid_token\"");
-        throw Problem(401, problem_type::unauthorized, "Unauthorized", "the API key is unknown or revoked");
-      }
-      if (route.access == Access::write && key->role != "write")
-        throw Problem(403, problem_type::forbidden, "Forbidden",
-                      "key \"" + key->name + "\" is read-only; this request writes");
-      c.key_name = key->name;
-    }
+    // The key was checked before the body was read (screen_request).
+    c.key_name = screened_caller();
     route.handler(c);
   } catch (const Problem& p) {
     write_problem(res, p, req.path);
@@ -183,7 +175,14 @@ void Service::Impl::dispatch(const Route& route, const httplib::Request& req, ht
     write_problem(res,
                   Problem(409, problem_type::conflict, "Conflict with stored rows",
                           std::to_string(e.rows.size()) + " row(s) contradict stored values; nothing was stored",
-                          {{"rows", rows}}),
+                          {{"rows", rows}, {"row_count", e.rows.size()}}),
+                  req.path);
+  } catch (const store::StorageFull& e) {
+    log_internal_error(req, e.what());
+    write_problem(res,
+                  Problem(507, problem_type::insufficient_storage, "Insufficient storage",
+                          "the store is full; nothing of this request was stored. An operator must free space "
+                          "or raise --max-db-mb"),
                   req.path);
   } catch (const store::AlreadyExists& e) {
     write_problem(res, Problem(409, problem_type::already_exists, "Already exists", e.what()), req.path);
@@ -196,7 +195,7 @@ void Service::Impl::dispatch(const Route& route, const httplib::Request& req, ht
   } catch (const InputError& e) {
     write_problem(res, Problem(422, problem_type::invalid_body, "Invalid input", e.what()), req.path);
   } catch (const std::exception& e) {
-    std::cerr << "strandline serve: " << req.method << " " << req.path << ": internal error: " << e.what() << "\n";
+    log_internal_error(req, e.what());
     write_problem(res, Problem(500, problem_type::internal, "Internal error", e.what()), req.path);
   }
   metrics.observe_request(req.method, route.info.path, res.status,
@@ -204,8 +203,9 @@ void Service::Impl::dispatch(const Route& route, const httplib::Request& req, ht
 }
 
 void Service::Impl::install_routes() {
-  static const std::vector<Route> table = all_routes();
-  for (const auto& route : table) {
+  server.set_pre_routing_handler(
+      [this](const httplib::Request& req, httplib::Response& res) { return screen_request(*this, req, res); });
+  for (const auto& route : route_table()) {
     auto handler = [this, &route](const httplib::Request& req, httplib::Response& res) { dispatch(route, req, res); };
     const std::string pattern = route_regex(route.info.path);
     if (route.info.method == "GET") server.Get(pattern, handler);
@@ -221,7 +221,7 @@ void Service::Impl::install_routes() {
       write_problem(res, Problem(413, problem_type::too_large, "Payload too large", "the request body exceeds the limit"),
                     req.path);
     else if (res.status == 404)
-      write_problem(res, Problem(404, problem_type::not_found, "Not found", "no route for " + req.method + " " + req.path),
+      write_problem(res, Problem(404, problem_type::not_found, "Not found", "no route for " + req.method + " " + printable_text(req.path)),
                     req.path);
     else
       write_problem(res, Problem(res.status, problem_type::bad_request, "Bad request", "the request was refused"),
@@ -236,6 +236,7 @@ void Service::Impl::install_routes() {
       what = e.what();
     } catch (...) {
     }
+    log_internal_error(req, what);
     write_problem(res, Problem(500, problem_type::internal, "Internal error", what), req.path);
   });
 }
@@ -243,7 +244,7 @@ void Service::Impl::install_routes() {
 const std::vector<RouteInfo>& Service::routes() {
   static const std::vector<RouteInfo> infos = [] {
     std::vector<RouteInfo> out;
-    for (const auto& r : all_routes()) out.push_back(r.info);
+    for (const auto& r : route_table()) out.push_back(r.info);
     return out;
   }();
   return infos;
@@ -255,9 +256,11 @@ Service::Service(store::Store& store, ServiceOptions options) : impl_(std::make_
   const unsigned threads = std::max<unsigned>(options.http_threads, 2);
   s.new_task_queue = [threads] { return new httplib::ThreadPool(threads); };
   s.set_payload_max_length(options.max_body_bytes);
-  s.set_keep_alive_max_count(100000);
+  // A client gets 10 s between reads (a slow sender cannot hold a thread for
+  // long) and 1,000 requests per connection before it reconnects.
+  s.set_keep_alive_max_count(1000);
   s.set_keep_alive_timeout(5);
-  s.set_read_timeout(30);
+  s.set_read_timeout(10);
   s.set_write_timeout(30);
   // Headers and body go out as separate writes: without TCP_NODELAY the body
   // waits on the client's delayed ACK of the headers.
@@ -270,6 +273,7 @@ Service::Service(store::Store& store, ServiceOptions options) : impl_(std::make_
     ::setsockopt(sock, SOL_SOCKET, SO_REUSEADDR, &yes, sizeof yes);
     impl->listen_socket = sock;
   });
+  s.set_default_headers({{"X-Content-Type-Options", "nosniff"}});
   if (!options.static_dir.empty() && !s.set_mount_point("/", options.static_dir))
     throw std::runtime_error("static folder " + options.static_dir + " does not exist");
   impl_->install_routes();

@@ -55,6 +55,13 @@ std::vector<Route> run_routes();
 std::vector<Route> meta_routes();
 std::vector<Route> geodata_routes();
 
+// Every route of the service, in one table (the router, the screen and the OpenAPI test read it).
+const std::vector<Route>& route_table();
+const Route* find_route(const std::string& method, const std::string& path);
+
+// The key of "Authorization: Bearer <key>" (scheme case-insensitive), or "".
+std::string bearer_token(const httplib::Request& req);
+
 struct Service::Impl {
   Impl(store::Store& store, ServiceOptions options);
 
@@ -79,6 +86,16 @@ RenderedSeriesCache::Document series_document(Service::Impl& service, const std:
                                               const std::string& format, bool gzip);
 // Renders the gzip documents of a finished run ahead of the first reader.
 void warm_series_cache(Service::Impl& service, const app::RunManager::RunEnded& run);
+
+// Checks what can be checked before the body is read (text of path and query,
+// framing headers, route, key); refuses with a problem and a closed connection.
+httplib::Server::HandlerResponse screen_request(Service::Impl& service, const httplib::Request& req,
+                                                httplib::Response& res);
+// The key name screen_request authorised the current request as ("anonymous" without a key).
+const std::string& screened_caller();
+
+// Logs an unexpected failure, its text made printable.
+void log_internal_error(const httplib::Request& req, const std::string& what);
 
 // Renders a problem into the response.
 void write_problem(httplib::Response& res, const Problem& p, const std::string& instance);
