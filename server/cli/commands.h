@@ -21,6 +21,8 @@ int run_correct(const CommandArgs& args);
 int run_slope(const CommandArgs& args);
 int run_serve(const CommandArgs& args);
 int run_keys(const CommandArgs& args);
+int run_backup(const CommandArgs& args);
+int run_restore(const CommandArgs& args);
 int run_intersect(const CommandArgs& args);
 int run_transects(const CommandArgs& args);
 int run_polylines(const CommandArgs& args);

@@ -29,6 +29,8 @@ const Command kCommands[] = {
     {"serve", "HTTP service: uploads, background runs, series (see --help; --demo for a demo site)",
      strandline::cli::run_serve},
     {"keys", "API keys of the service: add, list, revoke", strandline::cli::run_keys},
+    {"backup", "consistent copy of the service's database, also while it serves", strandline::cli::run_backup},
+    {"restore", "replace the service's database by a checked backup (server stopped)", strandline::cli::run_restore},
 };
 
 void print_usage(std::ostream& out) {

@@ -5,6 +5,8 @@
 #include <cstdlib>
 #include <filesystem>
 #include <iostream>
+#include <optional>
+#include <regex>
 #include <thread>
 
 #include "corrections/core/errors.h"
@@ -13,6 +15,7 @@
 #include "server/app/demo_site.h"
 #include "server/http/service.h"
 #include "server/store/api_keys.h"
+#include "server/store/serve_lock.h"
 
 namespace strandline::cli {
 
@@ -43,6 +46,7 @@ int run_serve(const CommandArgs& argv) {
       .add_value("max-concurrent", "N", "requests in progress before 503 + Retry-After (default 80)")
       .add_value("max-body-mb", "N", "request body limit in MiB (default 512)")
       .add_value("run-workers", "N", "background run threads (default 1)")
+      .add_value("max-db-mb", "N", "refuse writes (507) that would grow the database past N MiB (default: no limit)")
       .add_epilogue("Keys: `strandline keys add --db FILE --name NAME --role write`.\n");
   if (!args.parse(argv)) return kExitOk;
   const bool demo = args.flag("demo");
@@ -69,7 +73,14 @@ int run_serve(const CommandArgs& argv) {
     db_path = args.require("db");
   }
 
-  auto store = store::open_sqlite_store(db_path);
+  const int max_db_mb = positive_int(args, "max-db-mb", 0, 1 << 24);
+  std::optional<store::ServeLock> lock;
+  try {
+    lock.emplace(db_path);
+  } catch (const store::AlreadyServed& e) {
+    throw UsageError(e.what());
+  }
+  auto store = store::open_sqlite_store(db_path, std::int64_t{max_db_mb} << 20);
   http::Service service(*store, options);
   if (demo) {
     std::cerr << "loading the demo site into " << db_path << " ...\n";
@@ -100,11 +111,14 @@ int run_serve(const CommandArgs& argv) {
 
 int run_keys(const CommandArgs& argv) {
   const char* kKeysUsage =
-      "usage: strandline keys add --db FILE --name NAME --role read|write\n"
+      "usage: strandline keys add --db FILE --name NAME --role read|write [--site SITE_ID]\n"
+      "                           [--expires TIME|DURATION]\n"
       "       strandline keys list --db FILE\n"
       "       strandline keys revoke --db FILE --name NAME\n"
       "The key is printed once by `add`; only its SHA-256 is stored. `add` creates a new database\n"
-      "(as `serve --db FILE` does); `list` and `revoke` need an existing one.\n";
+      "(as `serve --db FILE` does); `list` and `revoke` need an existing one. `--site` limits the key\n"
+      "to one site; `--expires` takes a UTC time (2027-01-01, 2027-01-01T12:00:00Z) or a duration\n"
+      "from now (90d, 12h, 2w).\n";
   if (argv.empty() || argv[0] == "--help" || argv[0] == "-h") {
     (argv.empty() ? std::cerr : std::cout) << kKeysUsage;
     return argv.empty() ? kExitBadInput : kExitOk;
@@ -113,12 +127,20 @@ int run_keys(const CommandArgs& argv) {
   if (action != "add" && action != "list" && action != "revoke")
     throw UsageError("unknown action \"" + action + "\" (add, list, revoke)");
   Args args("strandline keys " + action + " --db FILE" +
-                (action == "add" ? " --name NAME --role read|write" : action == "revoke" ? " --name NAME" : ""),
+                (action == "add"      ? " --name NAME --role read|write [--site SITE_ID] [--expires TIME|DURATION]"
+                 : action == "revoke" ? " --name NAME"
+                                      : ""),
             "");
   args.add_value("db", "FILE", action == "add" ? "SQLite database of the service (created when new)"
                                                 : "SQLite database of the service (must exist)");
   if (action != "list") args.add_value("name", "NAME", "name of the key");
-  if (action == "add") args.add_value("role", "ROLE", "read or write (default write)");
+  if (action == "add") {
+    args.add_value("role", "ROLE", "read or write (default write)")
+        .add_value("site", "SITE_ID", "the one site the key may act on (default: every site)")
+        .add_value("expires", "WHEN",
+                   "when the key stops being accepted: a UTC time (2027-01-01, 2027-01-01T12:00:00Z)\n"
+                   "or a duration from now (90d, 12h, 2w); default never");
+  }
   if (!args.parse(CommandArgs(argv.begin() + 1, argv.end()))) return kExitOk;
   const std::string db = args.require("db");
   // Opening creates a database: a misspelt path must not quietly become an empty key list. `add`
@@ -128,24 +150,45 @@ int run_keys(const CommandArgs& argv) {
   if (action == "add") {
     const std::string name = args.require("name");
     const std::string role = args.get("role").value_or("write");
-      if (role != "read" && role != "write") throw UsageError("option --role: expected read or write");
+    if (role != "read" && role != "write") throw UsageError("option --role: expected read or write");
+    store::KeyLimits limits;
+    if (const auto site = args.get("site")) {
+      // The site id rule of the service (FORMATS.md, "Endpoints").
+      static const std::regex site_id("[A-Za-z0-9._-]{1,64}");
+      if (!std::regex_match(*site, site_id))
+        throw UsageError("option --site \"" + *site + "\": a site id is 1-64 characters of A-Z a-z 0-9 . _ -");
+      limits.site_id = *site;
+    }
+    if (const auto expires = args.get("expires")) {
+      try {
+        limits.expires = store::parse_key_expiry(expand_date_only(*expires), store::utc_now_s());
+      } catch (const FieldError& e) {
+        throw UsageError(std::string("option --expires: ") + e.what());
+      }
+    }
     auto store = store::open_sqlite_store(db);
-    const auto key = store::generate_api_key(name, role);
+    const auto key = store::generate_api_key(name, role, limits);
     try {
       store->add_key(key.record);
     } catch (const store::AlreadyExists& e) {
       throw UsageError(e.what());
     }
     std::cout << key.secret << "\n";
-    std::cerr << "key \"" << name << "\" (" << role << ") added; it is shown only now\n";
+    std::cerr << "key \"" << name << "\" (" << role;
+    if (key.record.site_id) std::cerr << ", site " << *key.record.site_id;
+    if (key.record.expires_at) std::cerr << ", expires " << *key.record.expires_at;
+    std::cerr << ") added; it is shown only now\n";
+    if (key.record.site_id && !store->site(*key.record.site_id))
+      std::cerr << "note: there is no site \"" << *key.record.site_id << "\" yet\n";
     return kExitOk;
   }
   if (action == "list") {
-      auto store = store::open_sqlite_store(db);
-    std::cout << "name,role,prefix,created_at,revoked_at\n";
+    auto store = store::open_sqlite_store(db);
+    std::cout << "name,role,prefix,created_at,revoked_at,site_id,expires_at\n";
     for (const auto& k : store->keys())
       std::cout << k.name << "," << k.role << "," << k.prefix << "," << k.created_at << ","
-                << k.revoked_at.value_or("") << "\n";
+                << k.revoked_at.value_or("") << "," << k.site_id.value_or("") << "," << k.expires_at.value_or("")
+                << "\n";
     return kExitOk;
   }
   if (action == "revoke") {

@@ -9,7 +9,11 @@ namespace strandline::store {
 
 namespace {
 [[noreturn]] void fail(sqlite3* db, const std::string& what) {
-  throw StoreError(what + ": " + (db ? sqlite3_errmsg(db) : "out of memory"));
+  const std::string message = what + ": " + (db ? sqlite3_errmsg(db) : "out of memory");
+  // SQLite reports a full disk (ENOSPC) and max_page_count alike as SQLITE_FULL
+  // and rolls the statement's transaction back.
+  if (db && (sqlite3_extended_errcode(db) & 0xFF) == SQLITE_FULL) throw StorageFull(message);
+  throw StoreError(message);
 }
 }  // namespace
 
@@ -122,9 +126,10 @@ Connection::~Connection() {
 void Connection::exec(const std::string& sql) {
   char* error = nullptr;
   if (sqlite3_exec(db_, sql.c_str(), nullptr, nullptr, &error) != SQLITE_OK) {
-    std::string message = error ? error : "unknown error";
+    std::string message = "executing " + sql.substr(0, 60) + ": " + (error ? error : "unknown error");
     sqlite3_free(error);
-    throw StoreError("executing " + sql.substr(0, 60) + ": " + message);
+    if ((sqlite3_extended_errcode(db_) & 0xFF) == SQLITE_FULL) throw StorageFull(message);
+    throw StoreError(message);
   }
 }
 

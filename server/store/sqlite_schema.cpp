@@ -234,6 +234,13 @@ CREATE TABLE result_rows(
   content BLOB NOT NULL);
 )sql",
      series_documents_to_rows},
+    // API keys scoped to one site (NULL: every site) and with an expiry
+    // (NULL: never). The site is a plain id, not a reference: a key may be
+    // made before its site exists.
+    {5, R"sql(
+ALTER TABLE api_keys ADD COLUMN site_id TEXT;
+ALTER TABLE api_keys ADD COLUMN expires_at TEXT;
+)sql"},
 };
 
 }  // namespace

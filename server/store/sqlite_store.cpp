@@ -20,7 +20,11 @@ std::string now_utc_text() {
   return format_time_utc(static_cast<double>(now.time_since_epoch().count()));
 }
 
-std::unique_ptr<Store> open_sqlite_store(const std::string& path) { return std::make_unique<SqliteStore>(path); }
+std::unique_ptr<Store> open_sqlite_store(const std::string& path, std::int64_t max_size_bytes) {
+  auto store = std::make_unique<SqliteStore>(path);
+  if (max_size_bytes > 0) store->limit_size(max_size_bytes);
+  return store;
+}
 
 namespace detail {
 
@@ -41,6 +45,17 @@ SqliteStore::SqliteStore(const std::string& path) : path_(path) {
   writer_ = std::make_unique<Connection>(path, false);
   migrate_sqlite_schema(*writer_);
   checkpointer_ = std::thread([this] { checkpoint_loop(); });
+}
+
+void SqliteStore::limit_size(std::int64_t max_bytes) {
+  std::lock_guard lock(writer_mutex_);
+  auto q = writer_->prepare("PRAGMA page_size");
+  q.step();
+  const std::int64_t page = q.integer(0);
+  q.reset();
+  // SQLite's own ceiling (2^32 - 2 pages) stands for "no limit".
+  const std::int64_t pages = max_bytes > 0 ? std::max<std::int64_t>(1, max_bytes / page) : 4294967294;
+  writer_->exec("PRAGMA max_page_count=" + std::to_string(pages));
 }
 
 SqliteStore::~SqliteStore() {
@@ -408,18 +423,24 @@ void SqliteStore::add_key(const ApiKey& key) {
     q.bind(1, key.name);
     if (q.step()) throw AlreadyExists("a key named \"" + key.name + "\" already exists");
   }
-  writer_->prepare("INSERT INTO api_keys(name, prefix, hash, role, created_at) VALUES(?, ?, ?, ?, ?)")
+  writer_
+      ->prepare(
+          "INSERT INTO api_keys(name, prefix, hash, role, created_at, site_id, expires_at) "
+          "VALUES(?, ?, ?, ?, ?, ?, ?)")
       .bind(1, key.name)
       .bind(2, key.prefix)
       .bind(3, key.hash_hex)
       .bind(4, key.role)
       .bind(5, now_utc_text())
+      .bind(6, key.site_id)
+      .bind(7, key.expires_at)
       .run();
   tx.commit();
 }
 
 namespace {
-constexpr const char* kKeyColumns = "SELECT id, name, prefix, role, created_at, revoked_at, hash FROM api_keys ";
+constexpr const char* kKeyColumns =
+    "SELECT id, name, prefix, role, created_at, revoked_at, hash, site_id, expires_at FROM api_keys ";
 ApiKey read_key(const Statement& q) {
   ApiKey k;
   k.id = q.integer(0);
@@ -429,6 +450,8 @@ ApiKey read_key(const Statement& q) {
   k.created_at = q.text(4);
   k.revoked_at = q.optional_text(5);
   k.hash_hex = q.text(6);
+  k.site_id = q.optional_text(7);
+  k.expires_at = q.optional_text(8);
   return k;
 }
 }  // namespace

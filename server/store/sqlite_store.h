@@ -21,6 +21,10 @@ class SqliteStore final : public Store {
   explicit SqliteStore(const std::string& path);
   ~SqliteStore() override;
 
+  // Writes that would grow the database file past `max_bytes` fail with
+  // StorageFull (rolled back), as on a full disk; 0 lifts the limit.
+  void limit_size(std::int64_t max_bytes);
+
   void create_site(const Site& site) override;
   std::optional<Site> site(const std::string& id) override;
   std::vector<Site> sites(const std::string& after_id, int limit) override;

@@ -178,6 +178,8 @@ struct ApiKey {
   std::string created_at;
   std::optional<std::string> revoked_at;
   std::string hash_hex;  // SHA-256 of the whole key
+  std::optional<std::string> site_id;     // the one site the key may act on; none = every site
+  std::optional<std::string> expires_at;  // RFC 3339 UTC; none = never expires
 };
 
 class Store {
@@ -265,8 +267,9 @@ class Store {
   virtual std::optional<ApiKey> key_by_prefix(const std::string& prefix) = 0;
 };
 
-// Opens (creating and migrating) a SQLite database file.
-std::unique_ptr<Store> open_sqlite_store(const std::string& path);
+// Opens (creating and migrating) a SQLite database file. With `max_size_bytes`,
+// writes that would grow the file past it fail with StorageFull, as on a full disk.
+std::unique_ptr<Store> open_sqlite_store(const std::string& path, std::int64_t max_size_bytes = 0);
 
 // Current UTC time as RFC 3339 text.
 std::string now_utc_text();

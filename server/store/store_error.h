@@ -11,4 +11,11 @@ class StoreError : public std::runtime_error {
   using std::runtime_error::runtime_error;
 };
 
+// No room to write (a full disk, or the size limit set for the database): the
+// operation was rolled back and the store is as it was before it.
+class StorageFull : public StoreError {
+ public:
+  using StoreError::StoreError;
+};
+
 }  // namespace strandline::store

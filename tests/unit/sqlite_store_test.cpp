@@ -8,10 +8,14 @@
 #include <set>
 #include <unistd.h>
 
+#include "corrections/core/errors.h"
+#include "corrections/core/time_utc.h"
 #include "server/store/api_keys.h"
 #include "server/store/sqlite_connection.h"
 #include "server/store/sqlite_schema.h"
 #include "server/store/store.h"
+#include "server/store/sqlite_store.h"
+#include "server/store/serve_lock.h"
 
 using namespace strandline;
 using namespace strandline::store;
@@ -211,6 +215,100 @@ TEST_F(StoreTest, KeysAreStoredHashedAndVerified) {
   EXPECT_FALSE(verify_api_key(*store_, key.secret).has_value());
 }
 
+// The clock is passed in: a key is accepted before its expiry and refused from it on.
+TEST_F(StoreTest, ExpiredKeysAreRefused) {
+  const TimeS t0 = parse_time_utc("2026-03-01T12:00:00Z");
+  const auto key = generate_api_key("nightly", "write", {.site_id = std::nullopt, .expires = t0 + 3600});
+  store_->add_key(key.record);
+  const auto forever = generate_api_key("forever", "read");
+  store_->add_key(forever.record);
+  EXPECT_EQ(store_->keys()[0].expires_at, std::optional<std::string>("2026-03-01T13:00:00Z"));
+  EXPECT_FALSE(store_->keys()[1].expires_at.has_value());
+  EXPECT_TRUE(verify_api_key(*store_, key.secret, t0).has_value());
+  EXPECT_TRUE(verify_api_key(*store_, key.secret, t0 + 3599).has_value());
+  EXPECT_FALSE(verify_api_key(*store_, key.secret, t0 + 3600).has_value());
+  EXPECT_FALSE(verify_api_key(*store_, key.secret, t0 + 86400).has_value());
+  EXPECT_TRUE(verify_api_key(*store_, forever.secret, t0 + 1e9).has_value());
+  // The default clock is the system's: a key that expired a minute ago is refused now.
+  const auto stale = generate_api_key("stale", "write", {.site_id = std::nullopt, .expires = utc_now_s() - 60});
+  store_->add_key(stale.record);
+  EXPECT_FALSE(verify_api_key(*store_, stale.secret).has_value());
+  EXPECT_TRUE(verify_api_key(*store_, forever.secret).has_value());
+  // An expiry that cannot be read is treated as passed.
+  ApiKey odd = store_->keys()[0];
+  odd.expires_at = "not a time";
+  EXPECT_TRUE(key_expired(odd, t0));
+}
+
+TEST(KeyExpiry, TimesAndDurations) {
+  const TimeS now = parse_time_utc("2026-03-01T12:00:00Z");
+  EXPECT_DOUBLE_EQ(parse_key_expiry("90d", now), now + 90 * 86400.0);
+  EXPECT_DOUBLE_EQ(parse_key_expiry("12h", now), now + 12 * 3600.0);
+  EXPECT_DOUBLE_EQ(parse_key_expiry("2w", now), now + 14 * 86400.0);
+  EXPECT_DOUBLE_EQ(parse_key_expiry("2027-01-01T00:00:00Z", now), parse_time_utc("2027-01-01T00:00:00Z"));
+  for (const char* bad : {"", "0d", "d", "90", "90y", "-3d", "2020-01-01T00:00:00Z", "2026-03-01T12:00:00Z",
+                          "2027-01-01T00:00:00", "tomorrow", "1234567d"})
+    EXPECT_THROW(parse_key_expiry(bad, now), FieldError) << bad;
+}
+
+TEST_F(StoreTest, SiteScopeOfAKeyIsRecorded) {
+  const auto scoped = generate_api_key("cove-writer", "write", {.site_id = "s1", .expires = std::nullopt});
+  const auto wide = generate_api_key("admin", "write");
+  store_->add_key(scoped.record);
+  store_->add_key(wide.record);
+  const auto keys = store_->keys();
+  ASSERT_EQ(keys.size(), 2u);
+  EXPECT_EQ(keys[0].site_id, std::optional<std::string>("s1"));
+  EXPECT_FALSE(keys[1].site_id.has_value());
+  const auto verified = verify_api_key(*store_, scoped.secret);
+  ASSERT_TRUE(verified.has_value());
+  EXPECT_EQ(verified->site_id, std::optional<std::string>("s1"));
+  EXPECT_TRUE(key_covers_site(*verified, "s1"));
+  EXPECT_FALSE(key_covers_site(*verified, "s2"));
+  EXPECT_FALSE(key_covers_site(*verified, "s"));
+  EXPECT_TRUE(key_covers_site(keys[1], "s1"));
+  EXPECT_TRUE(key_covers_site(keys[1], "anything"));
+  EXPECT_THROW(generate_api_key("empty", "read", {.site_id = "", .expires = std::nullopt}), StoreError);
+}
+
+// Schema version 5 adds a site scope and an expiry to keys: keys made under
+// version 4 keep working, unscoped and without expiry.
+TEST_F(StoreTest, KeysMadeBeforeSiteScopesSurviveTheMigration) {
+  const std::string old_path = (dir_ / "v4.db").string();
+  const auto old_key = generate_api_key("old-writer", "write");
+  {
+    Connection db(old_path, false);
+    ASSERT_EQ(migrate_sqlite_schema(db, 4), 4);
+    EXPECT_THROW(db.exec("SELECT site_id FROM api_keys"), StoreError);  // the column is new in version 5
+    db.prepare("INSERT INTO api_keys(name, prefix, hash, role, created_at) VALUES(?, ?, ?, ?, ?)")
+        .bind(1, old_key.record.name)
+        .bind(2, old_key.record.prefix)
+        .bind(3, old_key.record.hash_hex)
+        .bind(4, old_key.record.role)
+        .bind(5, "2026-01-01T00:00:00Z")
+        .run();
+  }
+  auto migrated = open_sqlite_store(old_path);
+  const auto keys = migrated->keys();
+  ASSERT_EQ(keys.size(), 1u);
+  EXPECT_EQ(keys[0].name, "old-writer");
+  EXPECT_EQ(keys[0].created_at, "2026-01-01T00:00:00Z");
+  EXPECT_FALSE(keys[0].site_id.has_value());
+  EXPECT_FALSE(keys[0].expires_at.has_value());
+  const auto verified = verify_api_key(*migrated, old_key.secret, parse_time_utc("2100-01-01T00:00:00Z"));
+  ASSERT_TRUE(verified.has_value());
+  EXPECT_TRUE(key_covers_site(*verified, "any-site"));
+  const auto scoped = generate_api_key("new-reader", "read", {.site_id = "old", .expires = utc_now_s() + 3600});
+  migrated->add_key(scoped.record);
+  EXPECT_EQ(migrated->keys()[1].site_id, std::optional<std::string>("old"));
+  EXPECT_TRUE(verify_api_key(*migrated, scoped.secret).has_value());
+  migrated.reset();
+  Connection db(old_path, false);
+  auto version = db.prepare("SELECT MAX(version) FROM schema_migrations");
+  ASSERT_TRUE(version.step());
+  EXPECT_EQ(version.integer(0), 5);
+}
+
 // FIPS 180-2 test vector (SHA-256 of "abc").
 // Uploads insert many rows per statement: duplicates inside one upload, across
 // statement boundaries and against stored rows must still be counted row by row.
@@ -316,3 +414,37 @@ TEST(ApiKeyHash, MatchesThePublishedSha256Vector) {
 }
 
 }  // namespace
+
+// A full disk (here: a size limit the file reaches) fails the write as
+// StorageFull, rolls the upload back whole, and the store keeps working.
+TEST_F(StoreTest, FullStoreRefusesTheWholeUploadAndKeepsWhatItHad) {
+  store_->add_observations("s1", meta(1), {obs("T1", "A", 100)});
+  const auto uploads_before = store_->uploads("s1", 0, 100).size();
+  auto* sqlite = dynamic_cast<SqliteStore*>(store_.get());
+  ASSERT_NE(sqlite, nullptr);
+  sqlite->limit_size(std::filesystem::file_size(path_) + 8192);
+  std::vector<ObservationRow> many;
+  for (int i = 0; i < 20000; ++i) many.push_back(obs(i % 2 ? "T1" : "T2", "IMG-" + std::to_string(i), 100 + i % 7));
+  EXPECT_THROW(store_->add_observations("s1", meta(static_cast<std::int64_t>(many.size())), many), StorageFull);
+  EXPECT_EQ(store_->uploads("s1", 0, 100).size(), uploads_before);
+  EXPECT_EQ(store_->live_observations("s1", {}).size(), 1u);
+  sqlite->limit_size(0);  // space freed: the same upload goes through
+  EXPECT_EQ(store_->add_observations("s1", meta(static_cast<std::int64_t>(many.size())), many).inserted, 20000);
+}
+
+// One server per database: a second lock on the same file is refused and names the holder.
+TEST_F(StoreTest, SecondServeLockIsRefused) {
+  EXPECT_EQ(ServeLock::holder(path_), "");
+  {
+    ServeLock first(path_);
+    EXPECT_NE(ServeLock::holder(path_).find("pid " + std::to_string(getpid())), std::string::npos);
+    try {
+      ServeLock second(path_);
+      FAIL() << "a second lock was granted";
+    } catch (const AlreadyServed& e) {
+      EXPECT_NE(std::string(e.what()).find("already being served by pid"), std::string::npos) << e.what();
+    }
+  }
+  EXPECT_EQ(ServeLock::holder(path_), "");
+  ServeLock again(path_);  // released with its holder
+}
