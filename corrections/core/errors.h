@@ -23,9 +23,11 @@ class FieldError : public std::runtime_error {
 
 // Bad user input (file content, option value, configuration). `what()` is the
 // full message, e.g. `obs.csv:1043: time "2019-13-01T00:00Z": month out of range`.
+// Messages quote what users sent, and they reach replies and logs: every byte
+// that is not UTF-8 text is written as \xNN when the error is made (utf8_text.h).
 class InputError : public std::runtime_error {
  public:
-  explicit InputError(const std::string& message) : std::runtime_error(message) {}
+  explicit InputError(const std::string& message);
   InputError(const std::string& file, std::int64_t line, const std::string& field,
              const std::string& value, const std::string& reason);
 
@@ -54,8 +56,7 @@ class UsageError : public std::runtime_error {
 // Invalid pipeline configuration; the message starts with the JSON pointer.
 class ConfigError : public std::runtime_error {
  public:
-  ConfigError(const std::string& pointer, const std::string& reason)
-      : std::runtime_error(pointer + ": " + reason), pointer(pointer) {}
+  ConfigError(const std::string& pointer, const std::string& reason);
   std::string pointer;
 };
 

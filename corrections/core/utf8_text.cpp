@@ -49,13 +49,15 @@ std::optional<TextFault> text_fault(std::string_view text, bool line_breaks_allo
   return std::nullopt;
 }
 
-std::string printable_text(std::string_view text) {
+namespace {
+std::string escaped(std::string_view text, bool keep_line_breaks) {
   std::string out;
   out.reserve(text.size());
   for (std::size_t i = 0; i < text.size();) {
     const std::size_t n = utf8_sequence_length(text, i);
     const auto c = static_cast<unsigned char>(text[i]);
-    if (n == 0 || (n == 1 && is_control(c))) {
+    const bool kept = keep_line_breaks && (c == '\n' || c == '\r' || c == '\t');
+    if (n == 0 || (n == 1 && is_control(c) && !kept)) {
       out += "\\x";
       out += kHex[c >> 4];
       out += kHex[c & 15];
@@ -67,5 +69,10 @@ std::string printable_text(std::string_view text) {
   }
   return out;
 }
+}  // namespace
+
+std::string printable_text(std::string_view text) { return escaped(text, false); }
+
+std::string printable_message(std::string_view text) { return escaped(text, true); }
 
 }  // namespace strandline

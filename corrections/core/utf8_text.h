@@ -28,4 +28,7 @@ std::optional<TextFault> text_fault(std::string_view text, bool line_breaks_allo
 // written as \xNN: safe to show in a message, a JSON reply or a log.
 std::string printable_text(std::string_view text);
 
+// The same, keeping tab and line breaks: for messages of several lines.
+std::string printable_message(std::string_view text);
+
 }  // namespace strandline

@@ -9,6 +9,7 @@
 
 #include "corrections/core/csv_reader.h"
 #include "corrections/core/errors.h"
+#include "corrections/core/utf8_text.h"
 
 namespace strandline::geo {
 
@@ -22,16 +23,21 @@ void ensure_gdal_registered() {
   });
 }
 
-DatasetPtr open_vector(const std::string& path, const std::string& what) {
+DatasetPtr open_vector(const std::string& path, const std::string& what, const std::vector<std::string>& drivers) {
   ensure_gdal_registered();
   std::error_code ec;
   // GDAL virtual paths (/vsizip/, /vsicurl/, ...) are left to GDAL.
   if (path.rfind("/vsi", 0) != 0 && !std::filesystem::exists(path, ec))
     throw InputError(what + " " + path + ": no such file");
   CPLErrorReset();
-  GDALDataset* ds = GDALDataset::Open(path.c_str(), GDAL_OF_VECTOR | GDAL_OF_READONLY, nullptr, nullptr, nullptr);
+  std::vector<const char*> allowed;
+  for (const auto& d : drivers) allowed.push_back(d.c_str());
+  allowed.push_back(nullptr);
+  GDALDataset* ds = GDALDataset::Open(path.c_str(), GDAL_OF_VECTOR | GDAL_OF_READONLY,
+                                      drivers.empty() ? nullptr : allowed.data(), nullptr, nullptr);
   if (!ds) {
-    std::string reason = CPLGetLastErrorMsg();
+    // GDAL quotes the file's bytes in its messages: made printable before they reach a reply.
+    std::string reason = printable_text(CPLGetLastErrorMsg());
     if (reason.empty()) reason = "not a readable vector file";
     throw InputError(what + " " + path + ": cannot open (" + reason + ")");
   }

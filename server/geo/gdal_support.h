@@ -30,7 +30,9 @@ using FeaturePtr = std::unique_ptr<OGRFeature, FeatureDeleter>;
 void ensure_gdal_registered();
 
 // Opens a vector dataset for reading; `what` names the role ("transects file").
-DatasetPtr open_vector(const std::string& path, const std::string& what);
+// `drivers`: the GDAL drivers allowed to open it (empty: any). A body from the
+// service is GeoJSON only: other drivers sniff content (a VRT names other files).
+DatasetPtr open_vector(const std::string& path, const std::string& what, const std::vector<std::string>& drivers = {});
 
 // The layer named `layer_name`, or the only layer when none is named.
 OGRLayer& pick_layer(GDALDataset& ds, const std::string& path, const std::optional<std::string>& layer_name);

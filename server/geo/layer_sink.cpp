@@ -3,6 +3,7 @@
 #include <filesystem>
 
 #include "corrections/core/errors.h"
+#include "corrections/core/utf8_text.h"
 #include "server/geo/result_writer.h"
 
 namespace strandline::geo {
@@ -21,7 +22,7 @@ LayerSink::LayerSink(GeoFormat format, const std::string& path, const WorkCrs& w
   std::filesystem::remove(temp_path_, ec);
   CPLErrorReset();
   ds_.reset(driver->Create(temp_path_.c_str(), 0, 0, 0, GDT_Unknown, nullptr));
-  if (!ds_) throw InputError(path + ": cannot create (" + std::string(CPLGetLastErrorMsg()) + ")");
+  if (!ds_) throw InputError(path + ": cannot create (" + printable_text(CPLGetLastErrorMsg()) + ")");
   files.push_back(path);
   if (work_srs_.importFromWkt(work.definition.c_str()) != OGRERR_NONE)
     throw InputError(path + ": the work CRS cannot be written (" + work.name + ")");
@@ -40,24 +41,24 @@ OGRLayer& LayerSink::create_layer(const std::string& name, OGRwkbGeometryType ty
   const bool gpkg = format_ == GeoFormat::geopackage;
   OGRLayer* layer = ds_->CreateLayer(name.c_str(), gpkg ? &work_srs_ : &lon_lat_, type,
                                      const_cast<char**>(gpkg ? gpkg_options : json_options));
-  if (!layer) throw InputError(path_ + ": cannot create layer " + name + " (" + CPLGetLastErrorMsg() + ")");
+  if (!layer) throw InputError(path_ + ": cannot create layer " + name + " (" + printable_text(CPLGetLastErrorMsg()) + ")");
   return *layer;
 }
 
 void LayerSink::add(OGRLayer& layer, OGRFeature& f) {
   if (layer.CreateFeature(&f) != OGRERR_NONE)
-    throw InputError(path_ + ": cannot write a feature to layer " + layer.GetName() + " (" + CPLGetLastErrorMsg() +
+    throw InputError(path_ + ": cannot write a feature to layer " + layer.GetName() + " (" + printable_text(CPLGetLastErrorMsg()) +
                      ")");
 }
 
 void LayerSink::finish() {
   if (format_ == GeoFormat::geopackage && ds_->CommitTransaction() != OGRERR_NONE)
-    throw InputError(path_ + ": cannot commit (" + std::string(CPLGetLastErrorMsg()) + ")");
+    throw InputError(path_ + ": cannot commit (" + printable_text(CPLGetLastErrorMsg()) + ")");
   GDALDataset* raw = ds_.release();
   CPLErrorReset();
   GDALClose(GDALDataset::ToHandle(raw));
   if (CPLGetLastErrorType() == CE_Failure)
-    throw InputError(path_ + ": write failed (" + std::string(CPLGetLastErrorMsg()) + ")");
+    throw InputError(path_ + ": write failed (" + printable_text(CPLGetLastErrorMsg()) + ")");
   std::error_code ec;
   std::filesystem::rename(temp_path_, path_, ec);
   if (ec) throw InputError(path_ + ": cannot move the finished file into place (" + ec.message() + ")");

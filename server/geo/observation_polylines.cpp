@@ -60,7 +60,11 @@ PolylineWriteReport write_position_polylines(const std::string& path, const Tran
     if (layer.CreateField(&defn) != OGRERR_NONE) throw InputError(path + ": cannot create field " + name);
   }
 
-  for (const auto& [image_id, on_transect] : by_image) {
+  for (const auto& image : by_image) {
+    // Named references, not a structured binding: the lambda below captures the id
+    // (clang 14, which builds the fuzz targets, cannot capture bindings).
+    const auto& image_id = image.first;
+    const auto& on_transect = image.second;
     ++report.images;
     const ImagePosition& first = *on_transect.begin()->second;
     auto emit = [&](const std::vector<XY>& vertices) {

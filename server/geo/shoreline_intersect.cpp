@@ -58,7 +58,7 @@ IntersectResult intersect_shorelines(const std::string& path, const TransectSet&
                                      const IntersectOptions& options) {
   if (!OGRGeometryFactory::haveGEOS())
     throw std::runtime_error("GDAL was built without GEOS: no geometry intersection");
-  DatasetPtr ds = open_vector(path, "shorelines file");
+  DatasetPtr ds = open_vector(path, "shorelines file", options.drivers);
   OGRLayer& layer = pick_layer(*ds, path, options.layer);
   const std::string label = layer_label(path, layer);
   const std::optional<CrsInfo> crs = layer_crs(layer);

@@ -36,6 +36,7 @@ struct IntersectOptions {
   std::optional<std::string> layer;
   ShorelineFields fields;
   CrossingRule rule = CrossingRule::most_seaward;
+  std::vector<std::string> drivers;  // GDAL drivers allowed to open the file; empty: any
 };
 
 struct CrossingRow {

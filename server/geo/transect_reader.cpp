@@ -50,7 +50,7 @@ double max_offset_from_chord(const std::vector<XY>& v) {
 }  // namespace
 
 TransectSet read_transects(const std::string& path, const TransectReadOptions& options) {
-  DatasetPtr ds = open_vector(path, "transects file");
+  DatasetPtr ds = open_vector(path, "transects file", options.drivers);
   OGRLayer& layer = pick_layer(*ds, path, options.layer);
   const std::string label = layer_label(path, layer);
   const std::optional<CrsInfo> crs = layer_crs(layer);

@@ -6,6 +6,7 @@
 
 #include <optional>
 #include <string>
+#include <vector>
 
 #include "server/geo/geo_types.h"
 
@@ -20,6 +21,7 @@ struct TransectReadOptions {
   // Interior vertices of a line may stray this far from the origin-end chord;
   // a transect is one straight line.
   double straightness_tolerance_m = 1.0;
+  std::vector<std::string> drivers;  // GDAL drivers allowed to open the file; empty: any
 };
 
 // Throws InputError naming the layer and feature (FID) for bad geometry,

@@ -265,7 +265,9 @@ void post_shorelines(Context& c) {
   write_text(path, collection);
   geo::IntersectResult crossings;
   try {
-    crossings = geo::intersect_shorelines(path, transects, {});
+    geo::IntersectOptions options;
+    options.drivers = {"GeoJSON"};
+    crossings = geo::intersect_shorelines(path, transects, options);
   } catch (const InputError& e) {
     // GDAL numbers the features of a GeoJSON body from 0 (ids were dropped), so FID n is /features/n.
     const std::string message = without_path(e.what(), path, "body");

@@ -132,6 +132,7 @@ std::vector<store::Transect> read_transect_collection(const std::string& body, c
   }
   geo::TransectReadOptions options;
   options.crs = site.crs;
+  options.drivers = {"GeoJSON"};
   geo::TransectSet set;
   try {
     set = geo::read_transects(path, options);

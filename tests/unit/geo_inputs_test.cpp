@@ -314,3 +314,35 @@ TEST_F(GeoInputs, SelfIntersectingBaselineRefused) {
   BaselineOptions o;
   expect_input_error([&] { transects_from_baseline(p, o); }, {"feature FID 0", "intersects itself"});
 }
+
+// Found by fuzz_transects_geojson (the input is kept in its corpus): a GeoJSON
+// body holding "<OGRVRTDataSource" in a property name was opened by GDAL's VRT
+// driver, whose error quoted the body's raw bytes into our message and so into
+// the reply (not UTF-8). Messages are now printable, and a body the service
+// reads opens with the GeoJSON driver only.
+TEST_F(GeoInputs, OpenErrorsArePrintableAndDriversCanBeRestricted) {
+  const std::string finding =
+      std::string(STRANDLINE_SOURCE_DIR) + "/tests/fuzz/corpus/fuzz_transects_geojson/finding_vrt_sniffed_in_geojson_body";
+  TransectReadOptions any;
+  any.crs = "EPSG:32631";
+  try {
+    read_transects(finding, any);
+    FAIL() << "the finding was read as transects";
+  } catch (const InputError& e) {
+    EXPECT_NE(std::string(e.what()).find("cannot open"), std::string::npos) << e.what();
+    EXPECT_EQ(std::string(e.what()).find('\xFF'), std::string::npos) << e.what();
+  }
+  // A VRT naming another file on disk: any driver reads that file; GeoJSON only refuses the body.
+  const std::string target = geojson("elsewhere.geojson", line("\"transect_id\":\"A\"", "[500000,5000000],[500000,4999600]"),
+                                     "urn:ogc:def:crs:EPSG::32631");
+  const fs::path body = dir_ / "body.geojson";
+  {
+    std::ofstream out(body);
+    out << "<OGRVRTDataSource><OGRVRTLayer name=\"elsewhere\"><SrcDataSource>" << target
+        << "</SrcDataSource></OGRVRTLayer></OGRVRTDataSource>";
+  }
+  EXPECT_EQ(read_transects(body.string(), any).transects.size(), 1u);
+  TransectReadOptions geojson_only = any;
+  geojson_only.drivers = {"GeoJSON"};
+  EXPECT_THROW(read_transects(body.string(), geojson_only), InputError);
+}

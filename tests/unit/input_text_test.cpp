@@ -132,3 +132,17 @@ TEST(CsvText, FieldsThatAreNotTextNameLineAndColumn) {
   const std::string header = csv_error("image_id,n\xF6te\nIMG-1,x\n");
   EXPECT_NE(header.find("obs.csv:1: header column 2"), std::string::npos) << header;
 }
+
+// Found by fuzz_transects_geojson (kept in its corpus): GDAL field names with
+// invalid bytes reached an InputError's message, and the message a reply. Every
+// error now makes its message printable, keeping line breaks.
+TEST(ErrorText, InputAndConfigErrorsArePrintable) {
+  const InputError plain("attributes found: propert\x8F" "es\nsecond line\t(tab)");
+  EXPECT_STREQ(plain.what(), "attributes found: propert\\x8Fes\nsecond line\t(tab)");
+  const InputError located("f.csv", 3, "image_id", "caf\xE9", "bad \x01 byte");
+  EXPECT_STREQ(located.what(), "f.csv:3: image_id \"caf\\xE9\": bad \\x01 byte");
+  EXPECT_EQ(located.reason, "bad \\x01 byte");
+  const ConfigError config("/steps/h\xFF", "unknown step");
+  EXPECT_STREQ(config.what(), "/steps/h\\xFF: unknown step");
+  EXPECT_EQ(config.pointer, "/steps/h\\xFF");
+}
