@@ -9,6 +9,7 @@ packages=(
   libgdal-dev gdal-bin libproj-dev proj-data libeigen3-dev libfftw3-dev libcpp-httplib-dev
   nlohmann-json3-dev libsqlite3-dev sqlite3 libgtest-dev libgmock-dev libhowardhinnant-date-dev libssl-dev libdeflate-dev
   libcli11-dev nginx openssl procps
+  clang-14 libclang-rt-14-dev
   python3 python3-numpy python3-scipy python3-pyproj python3-gdal
 )
 # Node.js and npm only when no node is on the machine already.
