@@ -93,7 +93,7 @@ def reader(port, stop, stats, transects, rng):
         try:
             status = request(conn, "GET", path, headers=headers)
         except (OSError, http.client.HTTPException) as e:
-            stats.errors.append(f"{kind}: {e}")
+            stats.errors.append(f"{kind}: {e!r}")
             conn = http.client.HTTPConnection("127.0.0.1", port, timeout=30)
             continue
         stats.add(kind, time.monotonic() - t0, status)
@@ -116,23 +116,26 @@ def uploader(port, key, stop, stats, transects, worker):
             status = request(conn, "POST", "/v1/sites/demo/observations", body,
                              {"Authorization": f"Bearer {key}", "Content-Type": "text/csv"})
         except (OSError, http.client.HTTPException) as e:
-            stats.errors.append(f"upload: {e}")
+            stats.errors.append(f"upload: {e!r}")
             conn = http.client.HTTPConnection("127.0.0.1", port, timeout=60)
             continue
         stats.add("upload", time.monotonic() - t0, status)
 
 
 def runner(port, key, stop, stats, every_s):
-    conn = http.client.HTTPConnection("127.0.0.1", port, timeout=60)
     while not stop.wait(every_s):
+        # A connection per run: one idle for the whole interval would meet the
+        # server's 5 s keep-alive timeout, which is not what is measured here.
+        conn = http.client.HTTPConnection("127.0.0.1", port, timeout=60)
         t0 = time.monotonic()
         try:
             status = request(conn, "POST", "/v1/sites/demo/runs", "{}",
                              {"Authorization": f"Bearer {key}", "Content-Type": "application/json"})
         except (OSError, http.client.HTTPException) as e:
-            stats.errors.append(f"run: {e}")
-            conn = http.client.HTTPConnection("127.0.0.1", port, timeout=60)
+            stats.errors.append(f"run: {e!r}")
             continue
+        finally:
+            conn.close()
         stats.add("run queued", time.monotonic() - t0, status)
 
 
@@ -182,10 +185,10 @@ def main():
     print(f"\n{total} requests, {total / elapsed:.0f} requests/s; transport errors {len(stats.errors)}; "
           f"server peak RSS {rss:.0f} MB")
     server_errors = sum(n for (k, s), n in stats.status.items() if s >= 500)
+    for e in stats.errors[:10]:
+        print("transport error:", e)
     if args.check:
         ok = server_errors == 0 and not stats.errors and total > 0
-        for e in stats.errors[:10]:
-            print("transport error:", e)
         print(f"{'ok' if ok else 'FAIL'}: {server_errors} responses 5xx, {len(stats.errors)} transport errors")
         return 0 if ok else 1
     return 0
