@@ -5,35 +5,12 @@
 # service's --max-body-mb is refused by the front with /problems/payload-too-large.
 set -euo pipefail
 build=$1 source=$2
-bin=$build/server/strandline
-work=$(mktemp -d /tmp/strandline-front-overload-XXXXXX)
-script_pid= front_pids=
-passed=0 failed=0
-cleanup() {
-  [ -n "$script_pid" ] && kill -TERM "$script_pid" 2> /dev/null
-  wait 2> /dev/null
-  for pid in $front_pids; do kill -KILL "$pid" 2> /dev/null || true; done
-  rm -rf "$work"
-}
-trap cleanup EXIT
-fail() { echo "FAIL: $*" >&2; echo "$passed passed, $((failed + 1)) failed"; exit 1; }
-ok() { echo "ok: $*"; passed=$((passed + 1)); }
-free_port() { /usr/bin/python3 -c 'import socket; s = socket.socket(); s.bind(("127.0.0.1", 0)); print(s.getsockname()[1])'; }
-command -v nginx > /dev/null || [ -x /usr/sbin/nginx ] || fail "nginx is not installed (bash tests/setup_debian.sh)"
+name=overload
+source "$source/tests/integration/lib/front_harness.bash"
 
 # 4 requests at once and 5 per second (burst 10) per client; the service's --max-concurrent 6 (its 24 threads leave 8 beside
 # the front's 16 keep-alive connections) caps what the front passes at 6; 1 MiB bodies.
-port=$(free_port)
-bash "$source/server/deploy/serve_behind_proxy.sh" --bin "$bin" --port "$port" --conn-per-ip 4 --rate-per-ip 5 \
-  -- --db "$work/db" --threads 24 --max-concurrent 6 --max-body-mb 1 > "$work/front.log" 2>&1 &
-script_pid=$!
-for _ in $(seq 300); do
-  grep -q '^serve_behind_proxy: front ' "$work/front.log" && break
-  kill -0 "$script_pid" 2> /dev/null || fail "the front did not start: $(cat "$work/front.log")"
-  sleep 0.1
-done
-line=$(grep '^serve_behind_proxy: front ' "$work/front.log") || fail "the front did not start in 30 s: $(cat "$work/front.log")"
-front_pids=$(echo "$line" | sed -n 's/.*pids: front \([0-9]*\), serve \([0-9]*\);.*/\1 \2/p')
+start_front --conn-per-ip 4 --rate-per-ip 5 -- --db "$work/db" --threads 24 --max-concurrent 6 --max-body-mb 1
 
 # Requests in progress are held as uploads whose body never finishes (the front has read their
 # header, so they count); every other client is 127.0.0.x on the loopback.

@@ -4,34 +4,10 @@
 # still answers 200 within 1 s, every time.
 set -euo pipefail
 build=$1 source=$2
-bin=$build/server/strandline
-work=$(mktemp -d /tmp/strandline-front-slow-XXXXXX)
-script_pid= slow_pid= front_pids=
-passed=0 failed=0
-cleanup() {
-  [ -n "$slow_pid" ] && kill "$slow_pid" 2> /dev/null
-  [ -n "$script_pid" ] && kill -TERM "$script_pid" 2> /dev/null
-  wait 2> /dev/null
-  for pid in $front_pids; do kill -KILL "$pid" 2> /dev/null || true; done
-  rm -rf "$work"
-}
-trap cleanup EXIT
-fail() { echo "FAIL: $*" >&2; echo "$passed passed, $((failed + 1)) failed"; exit 1; }
-ok() { echo "ok: $*"; passed=$((passed + 1)); }
-free_port() { /usr/bin/python3 -c 'import socket; s = socket.socket(); s.bind(("127.0.0.1", 0)); print(s.getsockname()[1])'; }
-command -v nginx > /dev/null || [ -x /usr/sbin/nginx ] || fail "nginx is not installed (bash tests/setup_debian.sh)"
+name=slow
+source "$source/tests/integration/lib/front_harness.bash"
 
-port=$(free_port)
-bash "$source/server/deploy/serve_behind_proxy.sh" --bin "$bin" --port "$port" -- --db "$work/db" > "$work/front.log" 2>&1 &
-script_pid=$!
-for _ in $(seq 300); do
-  grep -q '^serve_behind_proxy: front ' "$work/front.log" && break
-  kill -0 "$script_pid" 2> /dev/null || fail "the front did not start: $(cat "$work/front.log")"
-  sleep 0.1
-done
-line=$(grep '^serve_behind_proxy: front ' "$work/front.log") || fail "the front did not start in 30 s: $(cat "$work/front.log")"
-front_pids=$(echo "$line" | sed -n 's/.*pids: front \([0-9]*\), serve \([0-9]*\);.*/\1 \2/p')
-base=http://127.0.0.1:$port
+start_front -- --db "$work/db"
 
 # 100 connections, each sending "GET /healthz ..." one byte per second (all in step), for 6 s.
 /usr/bin/python3 - "$port" > "$work/slow.out" 2>&1 <<'PY' &
@@ -48,6 +24,7 @@ print("sent", 6, "bytes each", flush=True)
 time.sleep(30)
 PY
 slow_pid=$!
+extra_pids=$slow_pid
 for _ in $(seq 100); do grep -q connected "$work/slow.out" && break; sleep 0.1; done
 grep -q 'connected 100' "$work/slow.out" || fail "the 100 slow clients did not connect: $(cat "$work/slow.out")"
 ok "100 clients connected, sending one byte per second"
