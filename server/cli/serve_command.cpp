@@ -6,7 +6,6 @@
 #include <filesystem>
 #include <iostream>
 #include <optional>
-#include <regex>
 #include <thread>
 
 #include "corrections/core/errors.h"
@@ -14,6 +13,7 @@
 #include "server/cli/commands.h"
 #include "server/app/demo_site.h"
 #include "server/http/service.h"
+#include "server/io/id_rules.h"
 #include "server/store/api_keys.h"
 #include "server/store/serve_lock.h"
 
@@ -153,10 +153,7 @@ int run_keys(const CommandArgs& argv) {
     if (role != "read" && role != "write") throw UsageError("option --role: expected read or write");
     store::KeyLimits limits;
     if (const auto site = args.get("site")) {
-      // The site id rule of the service (FORMATS.md, "Endpoints").
-      static const std::regex site_id("[A-Za-z0-9._-]{1,64}");
-      if (!std::regex_match(*site, site_id))
-        throw UsageError("option --site \"" + *site + "\": a site id is 1-64 characters of A-Z a-z 0-9 . _ -");
+      if (auto why = site_id_problem(*site)) throw UsageError("option --site: " + *why);
       limits.site_id = *site;
     }
     if (const auto expires = args.get("expires")) {

@@ -4,7 +4,6 @@
 #include <cmath>
 #include <cstdio>
 #include <fstream>
-#include <regex>
 
 #include "corrections/core/errors.h"
 #include "server/geo/crs.h"
@@ -17,11 +16,9 @@ namespace strandline::http {
 
 namespace {
 
-void check_id(const std::string& id, const std::string& what) {
-  static const std::regex pattern("[A-Za-z0-9._-]{1,64}");
-  if (!std::regex_match(id, pattern))
-    throw Problem(422, problem_type::invalid_body, "Invalid " + what,
-                  what + " must be 1-64 characters of A-Z a-z 0-9 . _ -", {{"pointer", "/id"}});
+void check_site_id(const std::string& id) {
+  if (auto why = site_id_problem(id))
+    throw Problem(422, problem_type::invalid_body, "Invalid site id", *why, {{"pointer", "/id"}});
 }
 
 Problem schema_problem(const std::string& pointer, const std::string& detail) {
@@ -61,7 +58,7 @@ store::Site site_from_json(const nlohmann::json& body) {
   for (const char* required : {"id", "name", "crs"})
     if (!body.contains(required)) throw schema_problem(std::string("/") + required, "required");
   s.id = body["id"];
-  check_id(s.id, "site id");
+  check_site_id(s.id);
   s.name = body["name"];
   s.crs = body["crs"];
   try {

@@ -21,4 +21,12 @@ std::optional<std::string> id_problem(std::string_view id, std::string_view what
   return std::nullopt;
 }
 
+std::optional<std::string> site_id_problem(std::string_view id) {
+  const bool ok = !id.empty() && id.size() <= 64 &&
+                  id.find_first_not_of("ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789._-") ==
+                      std::string_view::npos;
+  if (ok) return std::nullopt;
+  return "site id \"" + printable_text(id) + "\" must be 1-64 characters of A-Z a-z 0-9 . _ -";
+}
+
 }  // namespace strandline

@@ -17,5 +17,9 @@ inline constexpr std::size_t kMaxIdBytes = 128;
 // Why `id` is not a valid identifier ("transect id", "image id" in `what`), or nothing.
 std::optional<std::string> id_problem(std::string_view id, std::string_view what, bool names_a_path = false);
 
+// A site id names URL paths, files and key scopes: 1-64 characters of A-Z a-z 0-9 . _ -.
+// Why `id` is not one, or nothing.
+std::optional<std::string> site_id_problem(std::string_view id);
+
 
 }  // namespace strandline

@@ -38,5 +38,15 @@ TEST(IdRules, PrintableTextEscapesWhatCannotBeShown) {
   EXPECT_EQ(printable_text("plain"), "plain");
 }
 
+// One site id rule for the service's site creation and `keys add --site`.
+TEST(IdRules, SiteIdsAreShortPathSafeNames) {
+  for (std::string_view id : std::initializer_list<std::string_view>{"cove", "Gull-wing_2.b", std::string_view("abcdefghijklmnopqrstuvwxyzabcdefghijklmnopqrstuvwxyzabcdefghijkl")})
+    EXPECT_EQ(site_id_problem(id), std::nullopt) << id;
+  for (std::string_view id : std::initializer_list<std::string_view>{"", "a b", "a/b", "caf\xC3\xA9", "x?y",
+                              std::string_view("abcdefghijklmnopqrstuvwxyzabcdefghijklmnopqrstuvwxyzabcdefghijklm")})
+    EXPECT_NE(site_id_problem(id), std::nullopt) << id;
+  EXPECT_EQ(*site_id_problem("caf\xE9"), "site id \"caf\\xE9\" must be 1-64 characters of A-Z a-z 0-9 . _ -");
+}
+
 }  // namespace
 }  // namespace strandline
