@@ -4,7 +4,6 @@
 // memory for its body, and its connection is closed rather than left holding
 // an unread body.
 #include <cctype>
-#include <optional>
 
 #include "corrections/core/utf8_text.h"
 #include "server/http/service_internal.h"
@@ -91,29 +90,19 @@ void check_framing(const httplib::Request& req, const ServiceOptions& options) {
                       "\" is not accepted; send the body uncompressed");
 }
 
-// The route template's segments against the path's ("{...}" matches one non-empty segment).
-bool path_matches(std::string_view templ, std::string_view path) {
+// The route template's segments against the path's ("{...}" matches one
+// non-empty segment); `site` receives the segment where the template has "{site}".
+bool path_matches(std::string_view templ, std::string_view path, std::string* site = nullptr) {
   while (!templ.empty() && !path.empty()) {
     const auto ts = templ.find('/', 1), ps = path.find('/', 1);
     const std::string_view t = templ.substr(0, ts), p = path.substr(0, ps);
     const bool parameter = t.size() > 2 && t[1] == '{';
     if (parameter ? p.size() < 2 : t != p) return false;
+    if (site && t == "/{site}") *site = std::string(p.substr(1));
     templ.remove_prefix(ts == std::string_view::npos ? templ.size() : ts);
     path.remove_prefix(ps == std::string_view::npos ? path.size() : ps);
   }
   return templ.empty() && path.empty();
-}
-
-// The path's segment where the route template has "{site}", if it has one.
-std::optional<std::string> site_segment(std::string_view templ, std::string_view path) {
-  while (!templ.empty() && !path.empty()) {
-    const auto ts = templ.find('/', 1), ps = path.find('/', 1);
-    if (templ.substr(0, ts) == "/{site}") return std::string(path.substr(1, ps == std::string_view::npos ? ps : ps - 1));
-    if (ts == std::string_view::npos || ps == std::string_view::npos) break;
-    templ.remove_prefix(ts);
-    path.remove_prefix(ps);
-  }
-  return std::nullopt;
 }
 
 }  // namespace
@@ -169,8 +158,9 @@ httplib::Server::HandlerResponse screen_request(Service::Impl& service, const ht
     if (route->access == Access::write && key->role != "write")
       throw Problem(403, problem_type::forbidden, "Forbidden", "key \"" + key->name + "\" is read-only; this request writes");
     if (key->site_id) {
-      const auto site = site_segment(route->info.path, req.path);
-      if (site ? !store::key_covers_site(*key, *site) : route->access == Access::write)
+      std::string site;
+      path_matches(route->info.path, req.path, &site);
+      if (!site.empty() ? !store::key_covers_site(*key, site) : route->access == Access::write)
         throw Problem(403, problem_type::forbidden, "Forbidden",
                       "key \"" + key->name + "\" acts on site \"" + *key->site_id + "\" only");
     }
