@@ -35,9 +35,7 @@ void upload(Context& c, const std::string& kind, const std::string& array_key, U
   } catch (const app::InvalidRows& e) {
     throw Problem(422, problem_type::invalid_rows, "Invalid rows",
                   std::string(e.what()) + " (add ?on_invalid=skip to store the valid rows)",
-                  {{"rows", row_issues_json(e.rows, format, array_key)},
-                   {"row_count", e.rows.size()},
-                   {"rows_listed", std::min(e.rows.size(), kMaxListedRowIssues)}});
+                  {{"rows", row_issues_json(e.rows, format, array_key)}, {"row_count", e.rows.size()}});
   }
   const store::UploadResult& r = report.result;
   c.service.metrics.count_rows(kind, r.inserted);

@@ -175,7 +175,7 @@ void Service::Impl::dispatch(const Route& route, const httplib::Request& req, ht
     write_problem(res,
                   Problem(409, problem_type::conflict, "Conflict with stored rows",
                           std::to_string(e.rows.size()) + " row(s) contradict stored values; nothing was stored",
-                          {{"rows", rows}, {"row_count", e.rows.size()}}),
+                          {{"rows", rows}}),
                   req.path);
   } catch (const store::StorageFull& e) {
     log_internal_error(req, e.what());
