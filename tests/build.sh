@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Configures and builds the project into build/ (Release with debug info).
+# Extra arguments go to CMake's configure step, e.g. -DSTRANDLINE_UNIT_TESTS=OFF.
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 jobs="${STRANDLINE_JOBS:-$(nproc)}"
-cmake -S "$root" -B "$root/build" -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
+cmake -S "$root" -B "$root/build" -DCMAKE_BUILD_TYPE=RelWithDebInfo "$@" >/dev/null
 cmake --build "$root/build" -j "$jobs"

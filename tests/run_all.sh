@@ -1,29 +1,41 @@
 #!/usr/bin/env bash
-# Installs what is missing, builds, and runs every test (all CTest labels:
-# quick, reference, integration) and the fuzz targets (corpus replay and 20 s
-# each in an ASan+UBSan build). `--quick` runs only the unit tests; `--deep`
-# adds what is run by hand or nightly.
-#   bash tests/run_all.sh            # the full suite (CI runs exactly this)
-#   bash tests/run_all.sh --quick    # the daily tier
-#   bash tests/run_all.sh --deep     # full, then 10 min per fuzz target, the unit suite under
-#                                    # ASan+UBSan, the server tests under TSan, the 60 s mixed load
+# Installs what is missing, builds, and runs every test.
+#   bash tests/run_all.sh            # the full tier (CI runs exactly this):
+#       the normal build (GCC) with the reference and integration tests (crash loop, front checks);
+#       one ASan+UBSan build (clang) shared by the unit tests and the fuzz targets (corpus replay
+#       and 20 s each); the server and run tests under TSan (GCC)
+#   bash tests/run_all.sh --quick    # the daily tier: the unit tests in the normal build
+#   bash tests/run_all.sh --deep     # the full tier with the unit tests in the normal build too,
+#                                    # then 10 min per fuzz target and the 60 s mixed load
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+mode=${1:-}
+case "$mode" in ""|--quick|--deep) ;; *) echo "usage: run_all.sh [--quick|--deep]" >&2; exit 2 ;; esac
 bash "$root/tests/setup_debian.sh"
-bash "$root/tests/build.sh"
-cd "$root/build"
 jobs="${STRANDLINE_JOBS:-$(nproc)}"
-case "${1:-}" in
-  --quick)
-    ctest -L quick -j "$jobs" --output-on-failure ;;
-  ""|--deep)
-    ctest -j "$jobs" --output-on-failure --timeout 1200
-    bash "$root/tests/fuzz/run_fuzz.sh" --seconds 20
-    if [[ "${1:-}" == "--deep" ]]; then
-      bash "$root/tests/fuzz/run_fuzz.sh" --seconds 600
-      bash "$root/tests/sanitize/run_sanitizers.sh"
-      /usr/bin/python3 "$root/tests/bench/mixed_load.py" --build-dir "$root/build" --seconds 60 --connections 64
-    fi ;;
-  *)
-    echo "usage: run_all.sh [--quick|--deep]" >&2; exit 2 ;;
-esac
+stage() { echo "== $(date -u +%H:%M:%S) $*"; }
+
+if [[ $mode == --quick ]]; then
+  bash "$root/tests/build.sh" -DSTRANDLINE_UNIT_TESTS=ON
+  ctest --test-dir "$root/build" -L quick -j "$jobs" --output-on-failure
+  exit 0
+fi
+
+# The full tier's unit tests run in the sanitizer build; --deep runs them in this one as well.
+unit_tests=$([[ $mode == --deep ]] && echo ON || echo OFF)
+stage "normal build (unit tests: $unit_tests)"
+bash "$root/tests/build.sh" -DSTRANDLINE_UNIT_TESTS=$unit_tests
+stage "reference and integration tests$([[ $unit_tests == ON ]] && echo ', unit tests')"
+ctest --test-dir "$root/build" -j "$jobs" --output-on-failure --timeout 1200
+stage "unit tests under ASan+UBSan (the build the fuzz targets share)"
+bash "$root/tests/sanitize/run_sanitizers.sh" --asan
+stage "fuzz targets: corpus replay and 20 s each"
+bash "$root/tests/fuzz/run_fuzz.sh" --seconds 20
+stage "server and run tests under TSan"
+bash "$root/tests/sanitize/run_sanitizers.sh" --tsan
+if [[ $mode == --deep ]]; then
+  stage "long fuzzing and the mixed load"
+  bash "$root/tests/fuzz/run_fuzz.sh" --seconds 600
+  /usr/bin/python3 "$root/tests/bench/mixed_load.py" --build-dir "$root/build" --seconds 60 --connections 64
+fi
+stage "all passed"

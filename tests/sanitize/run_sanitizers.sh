@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # The unit suite under AddressSanitizer + UndefinedBehaviorSanitizer (clang-14,
-# the build folder the fuzz targets use), and the server and run tests under
-# ThreadSanitizer (GCC, build-tsan/). Each build is its own folder beside build/.
+# the build folder the fuzz targets use: one build serves both), and the server
+# and run tests under ThreadSanitizer (GCC, build-tsan/). Each build is its own
+# folder beside build/. Both run in the full tier (tests/run_all.sh).
 #   bash tests/sanitize/run_sanitizers.sh            # both
 #   bash tests/sanitize/run_sanitizers.sh --asan     # or --tsan: one of them
 set -euo pipefail
@@ -16,7 +17,8 @@ if [[ $which == both || $which == --asan ]]; then
   build="$root/build-fuzz"
   cmake -S "$root" -B "$build" -DSTRANDLINE_FUZZ=ON -DCMAKE_BUILD_TYPE=None \
     -DCMAKE_CXX_COMPILER=clang++-14 -DCMAKE_CXX_FLAGS="-O1 -g1" > /dev/null
-  cmake --build "$build" --target "${unit_targets[@]}" -j "$jobs" > "$build/asan-build.log" 2>&1 ||
+  # The fuzz targets are built in the same call: run_fuzz.sh then finds them up to date.
+  cmake --build "$build" --target "${unit_targets[@]}" fuzz_all -j "$jobs" > "$build/asan-build.log" 2>&1 ||
     { tail -40 "$build/asan-build.log"; echo "run_sanitizers.sh: the ASan build failed" >&2; exit 1; }
   # Leaks are checked too; a report fails the test that caused it.
   ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 UBSAN_OPTIONS=print_stacktrace=1:halt_on_error=1 \
@@ -25,8 +27,11 @@ fi
 
 if [[ $which == both || $which == --tsan ]]; then
   build="$root/build-tsan"
-  tsan_targets=(unit_http_service_test unit_http_hardening_test unit_http_geodata_test unit_rendered_series_test)
-  cmake -S "$root" -B "$build" -DSTRANDLINE_TSAN=ON -DCMAKE_BUILD_TYPE=RelWithDebInfo > /dev/null
+  # The tests that drive the server's threads: requests, runs on the workers, the series cache.
+  tsan_targets=(unit_http_service_test unit_http_hardening_test unit_rendered_series_test)
+  # -O1 -g1: TSan's recommended level with line tables for the reports, and a quicker build.
+  cmake -S "$root" -B "$build" -DSTRANDLINE_TSAN=ON -DCMAKE_BUILD_TYPE=None \
+    -DCMAKE_CXX_FLAGS="-O1 -g1" > /dev/null
   cmake --build "$build" --target "${tsan_targets[@]}" -j "$jobs" > "$build/tsan-build.log" 2>&1 ||
     { tail -40 "$build/tsan-build.log"; echo "run_sanitizers.sh: the TSan build failed" >&2; exit 1; }
   export TSAN_OPTIONS="suppressions=$root/tests/sanitize/tsan.supp halt_on_error=1 second_deadlock_stack=1"
