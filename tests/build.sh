@@ -4,5 +4,8 @@
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 jobs="${STRANDLINE_JOBS:-$(nproc)}"
-cmake -S "$root" -B "$root/build" -DCMAKE_BUILD_TYPE=RelWithDebInfo "$@" >/dev/null
+# Ninja for a new build folder (it schedules both cores across targets); an existing one keeps its generator.
+generator=()
+[[ -f "$root/build/CMakeCache.txt" ]] || generator=(-G Ninja)
+cmake -S "$root" -B "$root/build" "${generator[@]}" -DCMAKE_BUILD_TYPE=RelWithDebInfo "$@" >/dev/null
 cmake --build "$root/build" -j "$jobs"

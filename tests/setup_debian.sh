@@ -5,10 +5,10 @@ set -euo pipefail
 here="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
 
 packages=(
-  build-essential cmake pkg-config git curl ca-certificates
+  build-essential cmake ninja-build pkg-config git curl ca-certificates
   libgdal-dev gdal-bin libproj-dev proj-data libeigen3-dev libfftw3-dev libcpp-httplib-dev
   nlohmann-json3-dev libsqlite3-dev sqlite3 libgtest-dev libgmock-dev libhowardhinnant-date-dev libssl-dev libdeflate-dev
-  libcli11-dev nginx openssl procps
+  libcli11-dev nginx openssl procps chromium
   clang-14 libclang-rt-14-dev
   python3 python3-numpy python3-scipy python3-pyproj python3-gdal
 )
@@ -27,11 +27,13 @@ if ((${#missing[@]})); then
   DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -qq --no-install-recommends "${missing[@]}"
 fi
 
-# npm projects of the tests (reference checks, browser tests): exact versions from their lock files.
-for dir in "$here"/reference/*/ "$here"/browser/; do
+# npm projects: the dashboard's chart library (embedded in the binary at build
+# time) and those of the tests (reference checks, browser tests), exact versions
+# from their lock files.
+for dir in "$here"/../web_static/ "$here"/reference/*/ "$here"/browser/; do
   [[ -f "$dir/package-lock.json" ]] || continue
   if [[ ! -d "$dir/node_modules" || "$dir/package-lock.json" -nt "$dir/node_modules" ]]; then
-    echo "setup: npm ci in ${dir#$here/}"
+    echo "setup: npm ci in $(realpath --relative-to="$here/.." "$dir")"
     (cd "$dir" && npm ci --no-audit --no-fund --loglevel=error)
   fi
 done

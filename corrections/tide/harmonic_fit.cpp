@@ -9,14 +9,13 @@
 #include <stdexcept>
 
 #include "corrections/core/errors.h"
+#include "corrections/tide/angle_units.h"
 #include "corrections/tide/constituent_table.h"
 
 namespace strandline::tide {
 
 namespace {
 
-constexpr double kRad = std::numbers::pi / 180.0;
-constexpr double kDeg = 180.0 / std::numbers::pi;
 // Above this the standard errors are inflated a hundredfold or more over an
 // orthogonal design: the record cannot tell the constituents apart.
 constexpr double kMaxCondition = 100.0;

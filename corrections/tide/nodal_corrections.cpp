@@ -3,12 +3,11 @@
 #include <cmath>
 #include <numbers>
 
+#include "corrections/tide/angle_units.h"
+
 namespace strandline::tide {
 
 namespace {
-
-constexpr double kRad = std::numbers::pi / 180.0;
-constexpr double kDeg = 180.0 / std::numbers::pi;
 
 double sq(double x) { return x * x; }
 

@@ -4,6 +4,8 @@
 #include <numbers>
 #include <stdexcept>
 
+#include "corrections/tide/angle_units.h"
+
 namespace strandline::tide {
 
 TidePredictor::TidePredictor(const ConstituentSet& set) : set_(set) {
@@ -15,7 +17,6 @@ TidePredictor::TidePredictor(const ConstituentSet& set) : set_(set) {
 }
 
 double TidePredictor::level_m(TimeS time_s) const {
-  constexpr double kRad = std::numbers::pi / 180.0;
   const AstronomicalArguments a = astronomical_arguments(time_s);
   const auto nodal = nodal_factors(node_angles(a));
   double level = set_.z0_m + set_.z0_rate_m_per_yr * (time_s - set_.z0_epoch_s) / kSecondsPerJulianYear;

@@ -1,5 +1,9 @@
 #include "server/app/demo_site.h"
 
+#include <algorithm>
+#include <sstream>
+
+#include "server/app/uploads.h"
 #include "corrections/tide/constituent_file.h"
 #include "demo_data/synthetic/demo_tide.h"
 #include "server/store/api_keys.h"
@@ -57,11 +61,21 @@ std::int64_t load_demo_site(store::Store& store, RunManager& runs) {
                      demo.waves[i].dir_deg, kUnknown});
   if (!waves.empty()) store.add_waves(site.id, meta("waves", waves.size()), waves);
 
-  // Surveyed slopes (the generator's truths with a survey-like 1-sigma).
-  std::vector<store::SlopeRow> slopes;
-  for (std::size_t i = 0; i < demo.transects.size(); ++i)
-    slopes.push_back({static_cast<std::int64_t>(i + 2), demo.transects[i].id, demo.transects[i].slope, 0.005});
-  store.add_slopes(site.id, meta("slopes", slopes.size()), slopes);
+  // A beach-profile survey of the first quarter of the transects (the generator's
+  // truths with a survey-like 1-sigma); the other slopes are estimated by the
+  // run. The survey sheet also lists a profile the site does not define, which
+  // the upload refuses and keeps, with its reason, for the uploads view.
+  std::ostringstream survey;
+  survey << "transect_id,slope,slope_sigma\n";
+  const std::size_t surveyed = std::max<std::size_t>(1, demo.transects.size() / 4);
+  for (std::size_t i = 0; i < surveyed && i < demo.transects.size(); ++i)
+    survey << demo.transects[i].id << "," << demo.transects[i].slope << ",0.005\n";
+  survey << "X900,0.09,0.005\n";
+  const std::string survey_csv = survey.str();
+  UploadRequest slopes{survey_csv, BodyFormat::csv, OnInvalid::skip, meta("slopes", 0)};
+  slopes.meta.content_type = "text/csv";
+  slopes.meta.sha256 = store::sha256_hex(survey_csv);
+  upload_slopes(store, site.id, std::move(slopes));
 
   store::RunInfo run;
   run.site_id = site.id;

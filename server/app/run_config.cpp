@@ -7,6 +7,7 @@
 #include "corrections/core/time_utc.h"
 #include "corrections/steps/wave_terms_step.h"
 #include "server/app/steps/step_list.h"
+#include "server/io/json_numbers.h"
 #include "server/io/transect_params_csv.h"
 
 namespace strandline::app {
@@ -15,7 +16,6 @@ namespace {
 
 constexpr double kMaxReferenceElevation_m = 50.0;
 
-nlohmann::json number_or_null(double v) { return known(v) ? nlohmann::json(v) : nlohmann::json(); }
 
 // Reads `key` and `key`_sigma (both may be null); `fallback` when absent.
 SlopeValue read_slope_value(ParamReader& r, const std::string& key, const SlopeValue& fallback) {

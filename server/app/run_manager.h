@@ -13,16 +13,35 @@
 #include <optional>
 #include <string>
 #include <thread>
+#include <string_view>
 #include <vector>
+
+#include <nlohmann/json.hpp>
 
 #include "server/store/store.h"
 
 namespace strandline::app {
 
+// The stages of a run, in order. A run is reported "running" until the last
+// one ends, though its results are in the store from the third on.
+enum class RunStage { reading_inputs, correcting, storing_results, rendering_documents };
+inline constexpr int kRunStageCount = 4;
+std::string_view run_stage_name(RunStage stage);
+
 struct RunProgress {
-  std::int64_t done = 0;
-  std::int64_t total = 0;
+  RunStage stage = RunStage::reading_inputs;
+  std::int64_t done = 0;   // transects corrected (stage correcting)
+  std::int64_t total = 0;  // transects in the run's scope
 };
+
+// A run as clients see it: the store's record, overlaid with the worker's stage
+// while the run is active. `progress` holds transects_done/total, stage,
+// stage_index (1-based), stage_count and fraction (0..1; null once failed).
+struct RunStatus {
+  std::string state;
+  nlohmann::json progress;
+};
+RunStatus run_status(const store::RunInfo& run, const std::optional<RunProgress>& active);
 
 class RunManager {
  public:
@@ -49,6 +68,7 @@ class RunManager {
  private:
   void work();
   void execute(std::int64_t run_id);
+  void set_progress(std::int64_t run_id, RunProgress progress);
 
   store::Store& store_;
   RunEndedFn on_run_ended_;

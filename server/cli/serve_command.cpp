@@ -40,7 +40,7 @@ int run_serve(const CommandArgs& argv) {
       .add_switch("demo", "temporary database with the invented demo site and one finished run")
       .add_value("host", "ADDRESS", "listen address (default 127.0.0.1)")
       .add_value("port", "N", "TCP port (default 8600; 0 = any free port, printed)")
-      .add_value("static", "DIR", "serve the dashboard's static files under /")
+      .add_value("static", "DIR", "serve the dashboard from DIR (index.html, assets/, vendor/) instead of the built-in copy")
       .add_switch("read-key-required", "reads need an API key too (writes always do)")
       .add_value("threads", "N", "handler threads = connections served at once (default 96)")
       .add_value("max-concurrent", "N", "requests in progress before 503 + Retry-After (default 80)")

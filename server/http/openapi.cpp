@@ -230,14 +230,17 @@ json build() {
                                        {"content_type", str}, {"sha256", str}, {"received", integer}, {"inserted", integer},
                                        {"duplicates", integer}, {"rejected", integer},
                                        {"retraction", {{"type", "object"}, {"nullable", true}, {"properties", {{"at", str}, {"by", str}, {"reason", str}}}}},
-                                       {"purged_at", {{"type", "string"}, {"nullable", true}}}, {"href", str}}}};
+                                       {"purged_at", {{"type", "string"}, {"nullable", true}}}, {"href", str},
+                                       {"rejected_rows", {{"type", "array"}, {"items", {{"type", "object"}}}}}}}};
   schemas["UploadPage"] = {{"type", "object"}, {"properties", {{"items", {{"type", "array"}, {"items", ref("Upload")}}}, {"next_cursor", {{"type", "string"}, {"nullable", true}}}}}};
   schemas["PurgeReport"] = {{"type", "object"}, {"properties", {{"site", str}, {"rows_erased", integer}}}};
   schemas["Run"] = {{"type", "object"},
                     {"properties", {{"run_id", integer}, {"site", str},
                                     {"state", {{"type", "string"}, {"enum", {"queued", "running", "done", "failed"}}}},
                                     {"reason", {{"type", "string"}, {"nullable", true}}}, {"scope", str},
-                                    {"progress", {{"type", "object"}, {"properties", {{"transects_done", integer}, {"transects_total", integer}}}}},
+                                    {"progress", {{"type", "object"}, {"properties", {{"transects_done", integer}, {"transects_total", integer},
+                                                                                 {"stage", str}, {"stage_index", integer}, {"stage_count", integer},
+                                                                                 {"fraction", {{"type", "number"}, {"nullable", true}}}}}}},
                                     {"timings", {{"type", "object"}, {"properties", {{"created_at", str}, {"started_at", str}, {"finished_at", str}}}}},
                                     {"requested_by", str}, {"options", {{"type", "object"}}}, {"provenance", {{"type", "object"}}}, {"href", str}}}};
   schemas["RunPage"] = {{"type", "object"}, {"properties", {{"items", {{"type", "array"}, {"items", ref("Run")}}}, {"next_cursor", {{"type", "string"}, {"nullable", true}}}}}};

@@ -24,19 +24,13 @@ std::int64_t positive_id(const std::string& text, const std::string& what) {
 }
 
 nlohmann::json run_json(Context& c, const store::RunInfo& r, bool with_provenance) {
-  auto progress = c.service.runs.progress(r.id);
-  std::int64_t done = r.state == "done" ? r.transects_total : r.transects_done;
-  std::int64_t total = r.transects_total;
-  if (progress && r.state == "running") {
-    done = progress->done;
-    total = std::max(progress->total, total);
-  }
+  const app::RunStatus status = app::run_status(r, c.service.runs.progress(r.id));
   nlohmann::json j = {{"run_id", r.id},
                       {"site", r.site_id},
-                      {"state", r.state},
+                      {"state", status.state},
                       {"reason", r.state == "failed" ? nlohmann::json(r.reason) : nlohmann::json()},
                       {"scope", r.scope},
-                      {"progress", {{"transects_done", done}, {"transects_total", total}}},
+                      {"progress", status.progress},
                       {"timings",
                        {{"created_at", r.created_at},
                         {"started_at", r.started_at.empty() ? nlohmann::json() : nlohmann::json(r.started_at)},

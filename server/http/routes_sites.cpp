@@ -8,6 +8,7 @@
 #include "corrections/core/errors.h"
 #include "server/geo/crs.h"
 #include "server/io/id_rules.h"
+#include "server/geo/transect_lon_lat.h"
 #include "server/geo/transect_reader.h"
 #include "server/app/run_executor.h"
 #include "server/http/service_internal.h"
@@ -144,6 +145,24 @@ std::vector<store::Transect> read_transect_collection(const std::string& body, c
   return out;
 }
 
+// The stored transects with their RFC 7946 geometry: a lon/lat LineString origin -> end
+// (a Point at the origin when the length is unknown) beside the site-CRS properties.
+nlohmann::json transect_collection(const store::Site& site, const std::vector<store::Transect>& transects) {
+  std::vector<TransectGeometry> geometries;
+  for (const auto& t : transects) geometries.push_back(t.geometry);
+  const auto lines = geo::transect_lines_lon_lat(site.crs, geometries, "site \"" + site.id + "\" CRS");
+  nlohmann::json features = nlohmann::json::array();
+  for (std::size_t i = 0; i < transects.size(); ++i) {
+    nlohmann::json f = transect_feature(transects[i]);
+    nlohmann::json coordinates = nlohmann::json::array();
+    for (const geo::XY& p : lines[i]) coordinates.push_back({p.x, p.y});
+    f["geometry"] = lines[i].size() == 1 ? nlohmann::json{{"type", "Point"}, {"coordinates", coordinates[0]}}
+                                         : nlohmann::json{{"type", "LineString"}, {"coordinates", coordinates}};
+    features.push_back(std::move(f));
+  }
+  return {{"type", "FeatureCollection"}, {"site_crs", site.crs}, {"features", features}};
+}
+
 void put_transects(Context& c) {
   const auto site = c.site_or_404(c.path_param(0));
   const auto body = c.json_body();  // checks media type and JSON syntax first
@@ -156,16 +175,12 @@ void put_transects(Context& c) {
       throw Problem(422, problem_type::invalid_body, "Invalid transect id", *why,
                     {{"pointer", "/features/" + std::to_string(i) + "/properties/transect_id"}});
   c.service.store.replace_transects(site.id, transects);
-  nlohmann::json features = nlohmann::json::array();
-  for (const auto& t : transects) features.push_back(t.feature);
-  c.reply(200, {{"type", "FeatureCollection"}, {"features", features}});
+  c.reply(200, transect_collection(site, transects));
 }
 
 void get_transects(Context& c) {
   const auto site = c.site_or_404(c.path_param(0));
-  nlohmann::json features = nlohmann::json::array();
-  for (const auto& t : c.service.store.transects(site.id)) features.push_back(transect_feature(t));
-  c.reply(200, {{"type", "FeatureCollection"}, {"features", features}});
+  c.reply(200, transect_collection(site, c.service.store.transects(site.id)));
 }
 
 }  // namespace

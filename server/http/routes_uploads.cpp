@@ -141,12 +141,20 @@ void list_uploads(Context& c) {
   c.reply(200, {{"items", items}, {"next_cursor", full ? nlohmann::json(std::to_string(uploads.back().id)) : nlohmann::json()}});
 }
 
+// One upload with the rows it refused, named as its report named them (CSV line or JSON pointer).
+nlohmann::json upload_with_rows_json(const std::string& site, const store::UploadInfo& u) {
+  nlohmann::json j = upload_json(site, u);
+  const BodyFormat format = u.content_type == "application/json" ? BodyFormat::json : BodyFormat::csv;
+  j["rejected_rows"] = row_issues_json(u.rejected_rows, format, u.kind);
+  return j;
+}
+
 void get_upload(Context& c) {
   const auto site = c.site_or_404(c.path_param(0));
   const auto id = upload_id_param(c);
   auto u = c.service.store.upload(site.id, id);
   if (!u) throw Problem(404, problem_type::not_found, "Not found", "upload " + std::to_string(id) + " not found");
-  c.reply(200, upload_json(site.id, *u));
+  c.reply(200, upload_with_rows_json(site.id, *u));
 }
 
 // DELETE records a retraction; the reason comes from ?reason= or a JSON body {"reason": "..."}.
@@ -166,7 +174,7 @@ void retract_upload(Context& c) {
                   "a retraction records why: give ?reason=... or {\"reason\": \"...\"}", {{"pointer", "/reason"}});
   if (!c.service.store.retract_upload(site.id, id, {store::now_utc_text(), c.key_name, reason}))
     throw Problem(409, problem_type::conflict, "Already retracted", "upload " + std::to_string(id) + " is already retracted");
-  c.reply(200, upload_json(site.id, *c.service.store.upload(site.id, id)));
+  c.reply(200, upload_with_rows_json(site.id, *c.service.store.upload(site.id, id)));
 }
 
 void purge(Context& c) {

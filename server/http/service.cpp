@@ -213,6 +213,8 @@ void Service::Impl::install_routes() {
     else if (route.info.method == "PUT") server.Put(pattern, handler);
     else if (route.info.method == "DELETE") server.Delete(pattern, handler);
   }
+  // Registered last: the API routes above match first.
+  server.Get(R"(/.*)", [this](const httplib::Request& req, httplib::Response& res) { serve_web_file(*this, req, res); });
   // Responses cpp-httplib produces itself (unknown path, body too large) get a
   // problem body too; handler responses already carry one.
   server.set_error_handler(httplib::Server::HandlerWithResponse([](const httplib::Request& req, httplib::Response& res) {
@@ -274,8 +276,12 @@ Service::Service(store::Store& store, ServiceOptions options) : impl_(std::make_
     impl->listen_socket = sock;
   });
   s.set_default_headers({{"X-Content-Type-Options", "nosniff"}});
-  if (!options.static_dir.empty() && !s.set_mount_point("/", options.static_dir))
-    throw std::runtime_error("static folder " + options.static_dir + " does not exist");
+  if (!options.static_dir.empty()) {
+    std::error_code ec;
+    impl_->static_root = std::filesystem::canonical(options.static_dir, ec);
+    if (ec || !std::filesystem::is_directory(*impl_->static_root))
+      throw std::runtime_error("static folder " + options.static_dir + " is not a folder");
+  }
   impl_->install_routes();
 }
 

@@ -18,7 +18,7 @@ namespace strandline::http {
 
 struct ServiceOptions {
   bool read_key_required = false;
-  std::string static_dir;  // served under / when not empty
+  std::string static_dir;  // the dashboard's files from this folder instead of the built-in ones
   std::size_t max_body_bytes = std::size_t{512} << 20;
   // Handler threads. With keep-alive each open connection holds one, so this
   // bounds the connections served at once; it must exceed max_concurrent_requests

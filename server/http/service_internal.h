@@ -4,6 +4,7 @@
 #pragma once
 
 #include <atomic>
+#include <filesystem>
 #include <functional>
 #include <optional>
 #include <string>
@@ -75,6 +76,7 @@ struct Service::Impl {
   std::atomic<std::size_t> in_flight{0};
   int port = -1;
   int listen_socket = -1;  // recorded when the server creates it (see Service::bind)
+  std::optional<std::filesystem::path> static_root;  // `--static DIR`, canonical; else the built-in files
 
   void install_routes();
   void dispatch(const Route& route, const httplib::Request& req, httplib::Response& res);
@@ -86,6 +88,9 @@ RenderedSeriesCache::Document series_document(Service::Impl& service, const std:
                                               const std::string& format, bool gzip);
 // Renders the gzip documents of a finished run ahead of the first reader.
 void warm_series_cache(Service::Impl& service, const app::RunManager::RunEnded& run);
+
+// Answers a GET that names no API route with a dashboard file, or 404/400 (routes_web.cpp).
+void serve_web_file(Service::Impl& service, const httplib::Request& req, httplib::Response& res);
 
 // Checks what can be checked before the body is read (text of path and query,
 // framing headers, route, key); refuses with a problem and a closed connection.

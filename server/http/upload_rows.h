@@ -18,7 +18,7 @@ namespace strandline::http {
 // bodies: "pointer" to the array element instead of "line").
 nlohmann::json row_issue_json(const store::RowIssue& issue, BodyFormat format, const std::string& array_key);
 // Replies list at most this many row issues (the first ones, in row order) beside their count.
-inline constexpr std::size_t kMaxListedRowIssues = 1000;
+inline constexpr std::size_t kMaxListedRowIssues = store::kStoredRejectedRows;
 // The first kMaxListedRowIssues issues in report form.
 nlohmann::json row_issues_json(const std::vector<store::RowIssue>& issues, BodyFormat format,
                                const std::string& array_key);

@@ -3,14 +3,13 @@
 #include <fstream>
 
 #include "corrections/core/errors.h"
+#include "server/io/json_numbers.h"
 #include "server/io/transect_params_csv.h"
 #include "corrections/core/json_text.h"
 
 namespace strandline {
 
 namespace {
-
-nlohmann::json number_or_null(double v) { return known(v) ? nlohmann::json(v) : nlohmann::json(nullptr); }
 
 }  // namespace
 

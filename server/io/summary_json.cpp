@@ -1,6 +1,7 @@
 #include "server/io/summary_json.h"
 
 #include "corrections/core/time_utc.h"
+#include "server/io/json_numbers.h"
 
 namespace strandline {
 
@@ -8,7 +9,6 @@ namespace {
 
 using nlohmann::json;
 
-json number_or_null(double v) { return known(v) ? json(v) : json(nullptr); }
 json time_or_null(TimeS t) { return known(t) ? json(format_time_utc(t)) : json(nullptr); }
 json pair(const Interval& i) { return json::array({i.low, i.high}); }
 json pair_or_null(const std::optional<Interval>& i) { return i ? pair(*i) : json(nullptr); }

@@ -241,6 +241,18 @@ CREATE TABLE result_rows(
 ALTER TABLE api_keys ADD COLUMN site_id TEXT;
 ALTER TABLE api_keys ADD COLUMN expires_at TEXT;
 )sql"},
+    // The rows an upload refused (with ?on_invalid=skip), kept for its readers:
+    // the report of the upload is no longer the only place that names them.
+    {6, R"sql(
+CREATE TABLE upload_rejected_rows(
+  upload_id INTEGER NOT NULL REFERENCES uploads(id),
+  line INTEGER NOT NULL,
+  key TEXT NOT NULL,
+  field TEXT NOT NULL,
+  value TEXT NOT NULL,
+  reason TEXT NOT NULL);
+CREATE INDEX upload_rejected_rows_by_upload ON upload_rejected_rows(upload_id, line);
+)sql"},
 };
 
 }  // namespace

@@ -42,7 +42,16 @@ std::int64_t begin_upload(Connection& db, std::int64_t key, const std::string& k
       .bind(7, meta.received)
       .bind(8, static_cast<std::int64_t>(meta.rejected.size()))
       .run();
-  return db.last_insert_rowid();
+  const std::int64_t id = db.last_insert_rowid();
+  auto insert = db.prepare(
+      "INSERT INTO upload_rejected_rows(upload_id, line, key, field, value, reason) VALUES(?, ?, ?, ?, ?, ?)");
+  const std::size_t kept = std::min(meta.rejected.size(), kStoredRejectedRows);
+  for (std::size_t i = 0; i < kept; ++i) {
+    const RowIssue& r = meta.rejected[i];
+    insert.reset();
+    insert.bind(1, id).bind(2, r.line).bind(3, r.key).bind(4, r.field).bind(5, r.value).bind(6, r.reason).run();
+  }
+  return id;
 }
 
 // Counts are known only once the rows are in; the upload row is still inside
@@ -502,7 +511,12 @@ std::optional<UploadInfo> SqliteStore::upload(const std::string& site_id, std::i
   auto q = db->prepare(std::string(kUploadColumns) + "WHERE u.site_key = ? AND u.id = ?");
   q.bind(1, key).bind(2, upload_id);
   if (!q.step()) return std::nullopt;
-  return read_upload(q);
+  UploadInfo u = read_upload(q);
+  auto rows = db->prepare(
+      "SELECT line, key, field, value, reason FROM upload_rejected_rows WHERE upload_id = ? ORDER BY line");
+  rows.bind(1, upload_id);
+  while (rows.step()) u.rejected_rows.push_back({rows.integer(0), rows.text(1), rows.text(2), rows.text(3), rows.text(4)});
+  return u;
 }
 
 bool SqliteStore::retract_upload(const std::string& site_id, std::int64_t upload_id, const Retraction& r) {

@@ -91,6 +91,9 @@ struct StoredImage {
 };
 
 // What the caller knows about an upload before storing it.
+// Rows refused by an upload that are kept with it, for its later readers.
+inline constexpr std::size_t kStoredRejectedRows = 1000;
+
 struct UploadMeta {
   std::string content_type;
   std::string sha256;       // of the request body
@@ -143,6 +146,7 @@ struct UploadInfo {
   std::int64_t received = 0, inserted = 0, duplicates = 0, rejected = 0;
   std::optional<Retraction> retraction;
   std::optional<std::string> purged_at;
+  std::vector<RowIssue> rejected_rows;  // the first kStoredRejectedRows refused rows (`upload` only, not lists)
 };
 
 struct RunInfo {

@@ -22,7 +22,9 @@ command -v clang++-14 > /dev/null || { echo "run_fuzz.sh: clang++-14 missing (ba
 
 jobs="${STRANDLINE_JOBS:-$(nproc)}"
 # -O1: the sanitizers' recommended level (fast enough, reports still exact).
-cmake -S "$root" -B "$build" -DSTRANDLINE_FUZZ=ON -DCMAKE_BUILD_TYPE=None \
+generator=()
+[[ -f "$build/CMakeCache.txt" ]] || generator=(-G Ninja)  # Ninja for a new folder; an existing one keeps its generator
+cmake -S "$root" -B "$build" "${generator[@]}" -DSTRANDLINE_FUZZ=ON -DCMAKE_BUILD_TYPE=None \
   -DCMAKE_CXX_COMPILER=clang++-14 -DCMAKE_CXX_FLAGS="-O1 -g1" > /dev/null
 cmake --build "$build" --target fuzz_all -j "$jobs" > "$build/fuzz-build.log" 2>&1 ||
   { tail -40 "$build/fuzz-build.log"; echo "run_fuzz.sh: the fuzz build failed" >&2; exit 1; }

@@ -77,18 +77,27 @@ def check_ok(what, reply):
     assert elapsed < 2, f"{what}: {elapsed:.3f} s"
     print(f"ok: {what}: 200 in {elapsed:.3f} s")
 
+def once_held(source, path="/v1/openapi.json", status=503, within_s=5.0):
+    """The reply once the held requests have reached the front and the service: they are
+    sent at once but arrive when the (possibly busy) machine delivers them, so a request
+    is repeated until it gets `status` or `within_s` passes; a limit never enforced fails."""
+    deadline = time.monotonic() + within_s
+    while True:
+        reply = get(source, path)
+        if reply[0] == status or time.monotonic() > deadline:
+            return reply
+        time.sleep(0.1)
+
 # Per client: 4 held from 127.0.0.1, the 5th is refused; another client still passes.
 held = [hold("127.0.0.1") for _ in range(4)]
-time.sleep(0.3)
-problem = check_problem("5th request from one client", get("127.0.0.1"), 503)
+problem = check_problem("5th request from one client", once_held("127.0.0.1"), 503)
 assert "4 per client" in problem["detail"], problem
 check_problem("5th request from one client (/healthz)", get("127.0.0.1", "/healthz"), 503)
 check_ok("a request from another client meanwhile", get("127.0.0.2"))
 
 # In all: 2 more held from 127.0.0.2 make 6 in progress, the service's cap; a third client is refused.
 held += [hold("127.0.0.2") for _ in range(2)]
-time.sleep(0.3)
-check_problem("7th request in all, from a third client", get("127.0.0.3"), 503)
+check_problem("7th request in all, from a third client", once_held("127.0.0.3"), 503)
 
 # Released, the same clients pass again.
 for s in held:

@@ -12,10 +12,12 @@ which=${1:-both}
 unit_targets=()
 for f in "$root"/tests/unit/*_test.cpp; do unit_targets+=("unit_$(basename "${f%.cpp}")"); done
 status=0
+# Ninja for a new build folder; an existing one keeps its generator.
+new_folder_generator() { [[ -f "$1/CMakeCache.txt" ]] || echo "-G Ninja"; }
 
 if [[ $which == both || $which == --asan ]]; then
   build="$root/build-fuzz"
-  cmake -S "$root" -B "$build" -DSTRANDLINE_FUZZ=ON -DCMAKE_BUILD_TYPE=None \
+  cmake -S "$root" -B "$build" $(new_folder_generator "$build") -DSTRANDLINE_FUZZ=ON -DCMAKE_BUILD_TYPE=None \
     -DCMAKE_CXX_COMPILER=clang++-14 -DCMAKE_CXX_FLAGS="-O1 -g1" > /dev/null
   # The fuzz targets are built in the same call: run_fuzz.sh then finds them up to date.
   cmake --build "$build" --target "${unit_targets[@]}" fuzz_all -j "$jobs" > "$build/asan-build.log" 2>&1 ||
@@ -30,7 +32,7 @@ if [[ $which == both || $which == --tsan ]]; then
   # The tests that drive the server's threads: requests, runs on the workers, the series cache.
   tsan_targets=(unit_http_service_test unit_http_hardening_test unit_rendered_series_test)
   # -O1 -g1: TSan's recommended level with line tables for the reports, and a quicker build.
-  cmake -S "$root" -B "$build" -DSTRANDLINE_TSAN=ON -DCMAKE_BUILD_TYPE=None \
+  cmake -S "$root" -B "$build" $(new_folder_generator "$build") -DSTRANDLINE_TSAN=ON -DCMAKE_BUILD_TYPE=None \
     -DCMAKE_CXX_FLAGS="-O1 -g1" > /dev/null
   cmake --build "$build" --target "${tsan_targets[@]}" -j "$jobs" > "$build/tsan-build.log" 2>&1 ||
     { tail -40 "$build/tsan-build.log"; echo "run_sanitizers.sh: the TSan build failed" >&2; exit 1; }

@@ -2,10 +2,15 @@
 // fresh SQLite store with a write and a read key, a real client.
 #pragma once
 
+#include <arpa/inet.h>
 #include <gtest/gtest.h>
+#include <netinet/in.h>
+#include <poll.h>
+#include <sys/socket.h>
 #include <unistd.h>
 
 #include <atomic>
+#include <chrono>
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
@@ -52,6 +57,51 @@ inline std::string water_levels_csv() {
       out << time << "," << 0.5 * std::sin(h * 0.5) << "\n";
     }
   return out.str();
+}
+
+// Sends `request` as is on a fresh connection and returns what the server
+// answers within `timeout_ms` (the status line and headers at least).
+inline std::string raw_exchange(int port, const std::string& request, int timeout_ms = 5000) {
+  const int fd = ::socket(AF_INET, SOCK_STREAM, 0);
+  sockaddr_in addr{};
+  addr.sin_family = AF_INET;
+  addr.sin_port = htons(static_cast<std::uint16_t>(port));
+  addr.sin_addr.s_addr = htonl(INADDR_LOOPBACK);
+  if (::connect(fd, reinterpret_cast<sockaddr*>(&addr), sizeof addr) != 0) {
+    ::close(fd);
+    return "connect failed";
+  }
+  ::send(fd, request.data(), request.size(), MSG_NOSIGNAL);
+  std::string reply;
+  const auto deadline = std::chrono::steady_clock::now() + std::chrono::milliseconds(timeout_ms);
+  char buffer[4096];
+  while (std::chrono::steady_clock::now() < deadline) {
+    pollfd p{fd, POLLIN, 0};
+    const auto left = std::chrono::duration_cast<std::chrono::milliseconds>(deadline - std::chrono::steady_clock::now());
+    if (::poll(&p, 1, static_cast<int>(std::max<std::int64_t>(left.count(), 1))) <= 0) break;
+    const ssize_t n = ::recv(fd, buffer, sizeof buffer, 0);
+    if (n <= 0) break;
+    reply.append(buffer, static_cast<std::size_t>(n));
+    const auto head_end = reply.find("\r\n\r\n");
+    if (head_end == std::string::npos) continue;
+    // Stop once the announced body is complete.
+    const auto cl = reply.find("Content-Length: ");
+    if (cl != std::string::npos && cl < head_end &&
+        reply.size() >= head_end + 4 + std::stoul(reply.substr(cl + 16)))
+      break;
+  }
+  ::close(fd);
+  return reply;
+}
+
+inline int status_of(const std::string& reply) {
+  if (reply.rfind("HTTP/1.1 ", 0) != 0) return 0;
+  return std::stoi(reply.substr(9, 3));
+}
+
+inline json body_of(const std::string& reply) {
+  const auto head_end = reply.find("\r\n\r\n");
+  return json::parse(reply.substr(head_end + 4));
 }
 
 class HttpService : public ::testing::Test {

@@ -2,12 +2,6 @@
 // problem (5xx only where the fault is ours) and the server stays up. Framing
 // rules follow RFC 9112 section 6.3; the bearer scheme RFC 6750 / RFC 9110
 // section 11.1 (schemes are case-insensitive).
-#include <arpa/inet.h>
-#include <netinet/in.h>
-#include <poll.h>
-#include <sys/socket.h>
-
-#include <chrono>
 
 #include "server/store/sqlite_store.h"
 #include "tests/unit/http_fixture.h"
@@ -16,51 +10,6 @@ using namespace strandline;
 using namespace strandline::testing_http;
 
 namespace {
-
-// Sends `request` as is on a fresh connection and returns what the server
-// answers within `timeout_ms` (the status line and headers at least).
-std::string raw_exchange(int port, const std::string& request, int timeout_ms = 5000) {
-  const int fd = ::socket(AF_INET, SOCK_STREAM, 0);
-  sockaddr_in addr{};
-  addr.sin_family = AF_INET;
-  addr.sin_port = htons(static_cast<std::uint16_t>(port));
-  addr.sin_addr.s_addr = htonl(INADDR_LOOPBACK);
-  if (::connect(fd, reinterpret_cast<sockaddr*>(&addr), sizeof addr) != 0) {
-    ::close(fd);
-    return "connect failed";
-  }
-  ::send(fd, request.data(), request.size(), MSG_NOSIGNAL);
-  std::string reply;
-  const auto deadline = std::chrono::steady_clock::now() + std::chrono::milliseconds(timeout_ms);
-  char buffer[4096];
-  while (std::chrono::steady_clock::now() < deadline) {
-    pollfd p{fd, POLLIN, 0};
-    const auto left = std::chrono::duration_cast<std::chrono::milliseconds>(deadline - std::chrono::steady_clock::now());
-    if (::poll(&p, 1, static_cast<int>(std::max<std::int64_t>(left.count(), 1))) <= 0) break;
-    const ssize_t n = ::recv(fd, buffer, sizeof buffer, 0);
-    if (n <= 0) break;
-    reply.append(buffer, static_cast<std::size_t>(n));
-    const auto head_end = reply.find("\r\n\r\n");
-    if (head_end == std::string::npos) continue;
-    // Stop once the announced body is complete.
-    const auto cl = reply.find("Content-Length: ");
-    if (cl != std::string::npos && cl < head_end &&
-        reply.size() >= head_end + 4 + std::stoul(reply.substr(cl + 16)))
-      break;
-  }
-  ::close(fd);
-  return reply;
-}
-
-int status_of(const std::string& reply) {
-  if (reply.rfind("HTTP/1.1 ", 0) != 0) return 0;
-  return std::stoi(reply.substr(9, 3));
-}
-
-json body_of(const std::string& reply) {
-  const auto head_end = reply.find("\r\n\r\n");
-  return json::parse(reply.substr(head_end + 4));
-}
 
 class HttpHardening : public HttpService {
  protected:
