@@ -57,6 +57,9 @@ int run_serve(const CommandArgs& argv) {
   options.max_concurrent_requests = static_cast<std::size_t>(positive_int(args, "max-concurrent", 80, 100000));
   options.max_body_bytes = static_cast<std::size_t>(positive_int(args, "max-body-mb", 512, 65536)) << 20;
   options.run_workers = static_cast<unsigned>(std::max(1, positive_int(args, "run-workers", 1, 64)));
+  if (!options.static_dir.empty() && !std::filesystem::is_directory(options.static_dir))
+    throw UsageError("--static " + options.static_dir +
+                     ": not a folder (without --static the dashboard built into the program is served)");
   if (options.max_concurrent_requests >= options.http_threads)
     throw UsageError("--max-concurrent must be below --threads so that overload answers always have a thread");
   const std::string host = args.get("host").value_or("127.0.0.1");

@@ -167,6 +167,10 @@ done < <(grep -oE '^  --[a-z-]+( [A-Za-z:|]+)?' "$tmp/slope_help")
 # keys: a database that does not exist is refused, not created.
 expect keys_missing_db 2 'does not exist' -- keys list --db "$tmp/typo.db"
 [[ ! -e "$tmp/typo.db" ]]; check keys_missing_db_not_created $? "keys created $tmp/typo.db"
+# A --static folder that does not exist is a usage error naming it, before the server starts
+# (it was an "internal error", exit 1, with the folder the README named).
+expect serve_static_missing 2 "--static $tmp/no-such-dist: not a folder" -- \
+  serve --db "$tmp/serve.db" --port 0 --static "$tmp/no-such-dist"
 
 # The demo generator has a real parser: --help prints help and writes nothing.
 gen="$build/demo_data/strandline-demo-gen"
