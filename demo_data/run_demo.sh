@@ -15,7 +15,7 @@ root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 batch_only=0
 [[ "${1:-}" == "--batch-only" ]] && batch_only=1
 bash "$root/tests/setup_debian.sh"
-bash "$root/tests/build.sh"
+bash "$root/tests/build.sh" -DSTRANDLINE_UNIT_TESTS=OFF  # the demo needs the programs, not the tests
 bin="$root/build/server/strandline"
 out="$root/demo_data/out"
 mkdir -p "$out"

@@ -16,7 +16,7 @@ jobs="${STRANDLINE_JOBS:-$(nproc)}"
 stage() { echo "== $(date -u +%H:%M:%S) $*"; }
 
 if [[ $mode == --quick ]]; then
-  bash "$root/tests/build.sh" -DSTRANDLINE_UNIT_TESTS=ON
+  bash "$root/tests/build.sh"
   ctest --test-dir "$root/build" -L quick -j "$jobs" --output-on-failure
   exit 0
 fi

@@ -30,7 +30,7 @@ fi
 if [[ $which == both || $which == --tsan ]]; then
   build="$root/build-tsan"
   # The tests that drive the server's threads: requests, runs on the workers, the series cache.
-  tsan_targets=(unit_http_service_test unit_http_hardening_test unit_rendered_series_test)
+  tsan_targets=(unit_http_service_test unit_http_hardening_test unit_http_dashboard_test unit_rendered_series_test)
   # -O1 -g1: TSan's recommended level with line tables for the reports, and a quicker build.
   cmake -S "$root" -B "$build" $(new_folder_generator "$build") -DSTRANDLINE_TSAN=ON -DCMAKE_BUILD_TYPE=None \
     -DCMAKE_CXX_FLAGS="-O1 -g1" > /dev/null
