@@ -2,19 +2,21 @@
 // Stockdon, Holman, Howd & Sallenger (2006, Coastal Engineering 53, 573-588),
 // from the deep-water height H0, deep-water wavelength L0 and foreshore slope
 // beta (tan beta). With q = sqrt(H0 L0):
-//   setup            0.35 beta q
-//   incident swash   S_inc = 0.75 beta q
-//   infragravity     S_ig  = 0.06 q
-//   R2%              1.1 (setup + sqrt(S_inc^2 + S_ig^2) / 2)   for xi0 >= 0.3
-//   R2% dissipative  0.043 q                                    for xi0 <  0.3
+//   setup            0.35 beta q                                (eq. 10)
+//   incident swash   S_inc = 0.75 beta q                        (eq. 11)
+//   infragravity     S_ig  = 0.06 q                             (eq. 12)
+//   R2%              1.1 (0.35 beta q + q sqrt(0.563 beta^2 + 0.004) / 2)
+//                                                               (eq. 19 as printed), xi0 >= 0.3
+//   R2% dissipative  0.043 q                                    (eq. 18), xi0 < 0.3
 //   Iribarren        xi0 = beta / sqrt(H0 / L0)
-// The paper prints the general R2% with the squares rounded, 0.563 beta^2 + 0.004;
-// we use the component form above (0.5625 and 0.0036), which is what the setup
-// and swash fits give (the two differ by under 5% of the swash part). Its
-// reported skill for R2% over ten field experiments: bias -0.17 m, rms error
-// 0.38 m. Constants recalled from memory; the rms and bias match the paper's
-// abstract. The paper's own dissipative setup and swash (0.016 q, 0.046 q) are
-// not used: the setup column keeps the general, slope-proportional form.
+// Eq. 19 prints the swash with its squares rounded (0.563, 0.004), so its swash
+// q sqrt(0.563 beta^2 + 0.004) is 1-4% above sqrt(S_inc^2 + S_ig^2) (0.5625,
+// 0.0036): the printed form is what practitioners compute and check against, so
+// it is the one used. Its reported skill for R2% over ten field experiments:
+// bias -0.17 m, rms error 0.38 m. Equation numbers and constants recalled from
+// memory; the rms and bias match the paper's abstract. The paper's own
+// dissipative setup and swash (0.016 q, 0.046 q) are not used: the setup column
+// keeps the general, slope-proportional form (the slope search's closed form needs it).
 //
 // Header-only: the uncertainty step (qc/) needs the slope derivative too.
 #pragma once
@@ -28,6 +30,8 @@ inline constexpr double kStockdonSetupCoefficient = 0.35;
 inline constexpr double kStockdonIncidentSwashCoefficient = 0.75;
 inline constexpr double kStockdonInfragravitySwashCoefficient = 0.06;
 inline constexpr double kStockdonRunupFactor = 1.1;
+inline constexpr double kStockdonSwashSlopeSquared = 0.563;  // eq. 19 as printed
+inline constexpr double kStockdonSwashConstant = 0.004;      // eq. 19 as printed
 inline constexpr double kStockdonDissipativeRunupCoefficient = 0.043;
 inline constexpr double kStockdonDissipativeIribarren = 0.3;  // below: dissipative form
 inline constexpr double kStockdonRunupRmsError_m = 0.38;      // R2% rms error reported by the paper
@@ -39,8 +43,8 @@ struct StockdonTerms {
   double setup_m;            // vertical, general form
   double incident_swash_m;   // S_inc (significant swash height, incident band)
   double infragravity_swash_m;  // S_ig
-  double total_swash_m;      // sqrt(S_inc^2 + S_ig^2)
-  double runup_general_m;    // 1.1 (setup + total / 2)
+  double total_swash_m;      // q sqrt(0.563 beta^2 + 0.004), eq. 19's swash
+  double runup_general_m;    // 1.1 (setup + total / 2), eq. 19
   double runup_dissipative_m;  // 0.043 sqrt(H0 L0)
   double runup_m;            // R2%: the form the regime selects
 };
@@ -59,7 +63,7 @@ inline StockdonTerms stockdon_terms(double h0_m, double l0_m, double slope) {
   t.setup_m = kStockdonSetupCoefficient * slope * q;
   t.incident_swash_m = kStockdonIncidentSwashCoefficient * slope * q;
   t.infragravity_swash_m = kStockdonInfragravitySwashCoefficient * q;
-  t.total_swash_m = std::hypot(t.incident_swash_m, t.infragravity_swash_m);
+  t.total_swash_m = q * std::sqrt(kStockdonSwashSlopeSquared * slope * slope + kStockdonSwashConstant);
   t.runup_general_m = kStockdonRunupFactor * (t.setup_m + 0.5 * t.total_swash_m);
   t.runup_dissipative_m = kStockdonDissipativeRunupCoefficient * q;
   t.runup_m = t.dissipative ? t.runup_dissipative_m : t.runup_general_m;
@@ -75,12 +79,13 @@ inline double setup_horizontal_m(double h0_m, double l0_m) {
 // The level c with d(R2%/beta)/d(beta) = -c / beta^2, so that the slope term of
 // a point's uncertainty with `runup` is sigma_beta |eta - z_ref + c| / beta^2.
 // General form: the setup part is slope-free in horizontal terms and the swash
-// part gives c = 0.55 S_ig^2 / sqrt(S_inc^2 + S_ig^2); dissipative form: c = R2%.
+// part q sqrt(a beta^2 + b) / 2 gives c = 0.55 b q^2 / (q sqrt(a beta^2 + b));
+// dissipative form: c = R2%.
 inline double runup_slope_sensitivity_level_m(double h0_m, double l0_m, double slope) {
   const StockdonTerms t = stockdon_terms(h0_m, l0_m, slope);
   if (t.dissipative) return t.runup_m;
   if (!(t.total_swash_m > 0)) return 0.0;
-  return kStockdonRunupFactor * 0.5 * t.infragravity_swash_m * t.infragravity_swash_m / t.total_swash_m;
+  return kStockdonRunupFactor * 0.5 * kStockdonSwashConstant * h0_m * l0_m / t.total_swash_m;
 }
 
 }  // namespace strandline

@@ -9,22 +9,26 @@
 namespace strandline {
 namespace {
 
-TEST(Stockdon, WorkedIntermediateCase) {
-  // H0 = 2 m, T = 10 s (L0 = 156.078 m with standard gravity), tan beta = 0.1, worked independently from the
-  // published coefficients: q = sqrt(H0 L0) = 17.6679; setup = 0.35 * 0.1 * q =
-  // 0.61838; S_inc = 0.75 * 0.1 * q = 1.32509; S_ig = 0.06 q = 1.06008;
-  // R2 = 1.1 (0.61838 + 0.5 hypot(1.32509, 1.06008)) = 1.61354; xi0 = 0.1 / sqrt(2 / 156.078) = 0.88340.
+TEST(Stockdon, WorkedIntermediateCaseIsEquation19AsPrinted) {
+  // H0 = 2 m, T = 10 s (L0 = g T^2 / 2 pi = 156.0777 m with standard gravity), tan beta = 0.1,
+  // worked by hand from Stockdon et al. (2006) eqs. 10-12 and eq. 19 as printed:
+  // q = sqrt(H0 L0) = 17.66792; setup = 0.35 * 0.1 * q = 0.618377;
+  // swash = q sqrt(0.563 * 0.01 + 0.004) = q * 0.0981326 = 1.733798;
+  // R2 = 1.1 (0.618377 + 1.733798 / 2) = 1.633804; S_inc = 0.75 * 0.1 * q = 1.325094;
+  // S_ig = 0.06 q = 1.060075; xi0 = 0.1 / sqrt(2 / 156.0777) = 0.883396.
   const double l0 = deep_water_wavelength_m(10.0);
   const StockdonTerms t = stockdon_terms(2.0, l0, 0.1);
-  EXPECT_NEAR(t.iribarren, 0.88340, 1e-5);
+  EXPECT_NEAR(t.iribarren, 0.883396, 1e-6);
   EXPECT_FALSE(t.dissipative);
-  EXPECT_NEAR(t.setup_m, 0.61838, 1e-5);
-  EXPECT_NEAR(t.incident_swash_m, 1.32509, 1e-5);
-  EXPECT_NEAR(t.infragravity_swash_m, 1.06008, 1e-5);
-  EXPECT_NEAR(t.runup_m, 1.61354, 1e-5);
-  // The paper's printed form with rounded squares (0.563, 0.004) differs by a few percent of the swash.
-  const double printed = 1.1 * (0.35 * 0.1 * std::sqrt(2.0 * l0) + 0.5 * std::sqrt(2.0 * l0 * (0.563 * 0.01 + 0.004)));
-  EXPECT_NEAR(t.runup_m, printed, 0.05 * t.total_swash_m);
+  EXPECT_NEAR(t.setup_m, 0.618377, 1e-6);
+  EXPECT_NEAR(t.incident_swash_m, 1.325094, 1e-6);
+  EXPECT_NEAR(t.infragravity_swash_m, 1.060075, 1e-6);
+  EXPECT_NEAR(t.total_swash_m, 1.733798, 1e-6);
+  EXPECT_NEAR(t.runup_m, 1.633804, 1e-6);
+  // Within 0.1% of the printed equation; the component form (0.5625, 0.0036) gives 1.613536,
+  // 1.2% lower, and must not be what is computed.
+  EXPECT_LT(std::abs(t.runup_m - 1.633804) / 1.633804, 1e-3);
+  EXPECT_GT(std::abs(t.runup_m - 1.613536), 0.01);
 }
 
 TEST(Stockdon, DissipativeFormBelowIribarrenPointThree) {

@@ -44,7 +44,7 @@ Truth stockdon_truth(double hs, double tp, double slope) {
   const double q = std::sqrt(hs * l0);
   const double setup = 0.35 * slope * q;
   const double xi = slope / std::sqrt(hs / l0);
-  const double swash = std::sqrt(std::pow(0.75 * slope * q, 2) + std::pow(0.06 * q, 2));
+  const double swash = q * std::sqrt(0.563 * slope * slope + 0.004);  // Stockdon et al. (2006) eq. 19 as printed
   return {setup, xi < 0.3 ? 0.043 * q : 1.1 * (setup + swash / 2)};
 }
 
