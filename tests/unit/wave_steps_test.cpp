@@ -239,6 +239,26 @@ TEST(WaveSteps, UncertaintyCarriesScatterAndRunupSlopeSensitivity) {
     EXPECT_NEAR(t.sigma_slope_m[i], 0.005 * std::abs(t.water_level_m[i] - kZref) / (kSlope * kSlope), 1e-9);
 }
 
+TEST(WaveSteps, SigmaIsTheRootSumSquareOfItsTermsWaveTermIncluded) {
+  // sigma_m = sqrt(sensor^2 + water level^2 + slope^2 + wave^2) (independent terms), with the
+  // wave term written out here: 0.38 m (Stockdon et al. 2006 R2% rms error) over tan beta.
+  for (auto mode : {WaveCorrection::setup, WaveCorrection::runup}) {
+    auto s = make_scenario(true);
+    run_steps(*s, mode);
+    const SiteTable& t = s->table;
+    for (std::size_t i = 0; i < t.size(); ++i) {
+      const double wave = 0.38 / kSlope;
+      double others2 = 0;  // an unknown term is left out (and flagged) by the step
+      for (double term : {t.sigma_sensor_m[i], t.sigma_water_level_m[i], t.sigma_slope_m[i]})
+        if (known(term)) others2 += term * term;
+      ASSERT_TRUE(known(t.sigma_wave_m[i])) << wave_correction_name(mode);
+      EXPECT_NEAR(t.sigma_wave_m[i], wave, 1e-12);
+      EXPECT_NEAR(t.sigma_m[i], std::sqrt(others2 + wave * wave), 1e-9) << wave_correction_name(mode) << " row " << i;
+      EXPECT_GT(t.sigma_m[i] - std::sqrt(others2), 0.5) << "the wave term is in sigma_m";
+    }
+  }
+}
+
 }  // namespace
 }  // namespace strandline
 
