@@ -13,6 +13,7 @@ namespace strandline {
 inline constexpr int kExitOk = 0;
 inline constexpr int kExitInternal = 1;
 inline constexpr int kExitBadInput = 2;
+inline constexpr int kExitNothingCorrected = 3;  // the run ended but corrected no row (reason printed)
 
 // A malformed value inside one field: raised by low-level parsers that do not
 // know the file or line; callers wrap it into an InputError.

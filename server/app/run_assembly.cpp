@@ -86,4 +86,17 @@ nlohmann::json PreparedRun::provenance(const RunRecord& record, const SiteTable&
           {"finished", finished}};
 }
 
+CorrectionCounts correction_counts(const SiteTable& table) {
+  CorrectionCounts c;
+  c.rows = table.size();
+  for (std::size_t i = 0; i < table.size(); ++i) {
+    if (table.accepted(i)) ++c.accepted;
+    if (known(table.correction_m[i])) ++c.corrected;
+    else if (has_flag(table.flags[i], Flag::no_water_level)) ++c.no_water_level;
+    else if (has_flag(table.flags[i], Flag::no_slope)) ++c.no_slope;
+    else ++c.other;
+  }
+  return c;
+}
+
 }  // namespace strandline::app

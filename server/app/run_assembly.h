@@ -77,4 +77,13 @@ class PreparedRun {
   RunInputs inputs_;
 };
 
+// What the correction did to the rows of a run: a row is corrected when its
+// correction is known; the others lack a water level or a slope (or both: counted
+// under the water level, the first missing input).
+struct CorrectionCounts {
+  std::size_t rows = 0, corrected = 0, accepted = 0;
+  std::size_t no_water_level = 0, no_slope = 0, other = 0;  // uncorrected, by reason
+};
+CorrectionCounts correction_counts(const SiteTable& table);
+
 }  // namespace strandline::app

@@ -108,13 +108,25 @@ int run_correct(const CommandArgs& argv) {
     document["provenance"]["command"] = "correct";
     write_file_atomically(*summary_path, document.dump(2) + "\n");
   }
+  const app::CorrectionCounts counts = app::correction_counts(table);
+  std::string uncorrected;
+  for (const auto& [n, why] : {std::pair{counts.no_water_level, "no water level"}, std::pair{counts.no_slope, "no slope"},
+                               std::pair{counts.other, "other"}})
+    if (n > 0) uncorrected += (uncorrected.empty() ? "" : ", ") + std::to_string(n) + " " + why;
   if (!quiet) {
-    const auto& counts = provenance["rows"];
-    std::cerr << "corrected " << table.size() << " rows on " << table.transects.size() << " transects ("
-              << counts["accepted"].get<std::size_t>() << " accepted";
-    if (skip_invalid) std::cerr << ", " << batch.observations.rejected.size() << " rejected rows in " << *rejected_path;
+    std::cerr << "corrected " << counts.corrected << " of " << counts.rows << " rows on " << table.transects.size()
+              << " transects (" << counts.accepted << " accepted";
+    if (!uncorrected.empty()) std::cerr << "; uncorrected: " << uncorrected;
+    if (skip_invalid) std::cerr << "; " << batch.observations.rejected.size() << " rejected input rows in " << *rejected_path;
     std::cerr << ")\ncleaned rows: " << out_path << "\n";
     if (summary_path) std::cerr << "summary: " << *summary_path << "\n";
+  }
+  // The outputs are written (every row with its flags), but a run that corrected nothing is not a success.
+  if (counts.corrected == 0) {
+    std::cerr << "strandline correct: no row was corrected (" << (uncorrected.empty() ? "no rows" : uncorrected)
+              << "): check the water levels' time range and units and the slopes (exit " << kExitNothingCorrected
+              << ")\n";
+    return kExitNothingCorrected;
   }
   return kExitOk;
 }

@@ -99,12 +99,12 @@ expect misspelt_column 2 'column "cloud_fration" looks like "cloud_fraction" mis
 printf 'time,level_m\n2019-03-01T00:00:00Z,10\n2019-03-01T01:00:00Z,40\n2019-03-01T02:00:00Z,80\n' > "$tmp/wl_cm.csv"
 expect water_levels_in_centimetres 2 'wl_cm.csv:2: level_m "10": 30 m from the record'"'"'s median' -- \
   correct --observations "$tmp/good.csv" --water-levels "$tmp/wl_cm.csv" --slope 0.05 --out "$tmp/out.csv"
-expect good_run 0 'corrected 2 rows' -- \
+expect good_run 0 'corrected 2 of 2 rows' -- \
   correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv"
 
 # --skip-invalid: cleaned + rejected = input
 printf 'transect_id,time,chainage_m,sensor,image_id\nT1,2019-03-01T00:30:00Z,100,landsat8,a\nT1,2019-03-01T00:40:00Z,x,landsat8,b\nT1,2019-03-01T00:50:00,100,landsat8,c\nT1,2019-03-01T01:30:00Z,100,landsat8,d\n' > "$tmp/mixed.csv"
-expect skip_invalid 0 '2 rejected rows' -- \
+expect skip_invalid 0 '2 rejected input rows' -- \
   correct --observations "$tmp/mixed.csv" --water-levels "$tmp/wl.csv" --slope 0.05 --out "$tmp/out.csv" --skip-invalid
 cleaned=$(($(wc -l < "$tmp/out.csv") - 1)); rejected=$(($(wc -l < "$tmp/out.rejected.csv") - 1))
 if [[ $cleaned -eq 2 && $rejected -eq 2 ]] && grep -q 'chainage_m,x,not a number' "$tmp/out.rejected.csv"; then
@@ -129,7 +129,7 @@ expect slope_percent 2 'option --slope "8%": give tan(beta): 8% is 0.08' -- \
   correct "${base[@]}" --slope 8% --out "$tmp/out.csv"
 expect slope_ratio 2 'option --slope "1:12": give tan(beta): 1:12 is 0.0833' -- \
   correct "${base[@]}" --slope 1:12 --out "$tmp/out.csv"
-expect trend_from_date 0 'corrected 2 rows' -- \
+expect trend_from_date 0 'corrected 2 of 2 rows' -- \
   correct "${base[@]}" --slope 0.05 --trend-from 2019-01-01 --trend-to 2019-12-31 --out "$tmp/out.csv" --summary "$tmp/summary.json"
 if grep -q '"2019-01-01T00:00:00Z"' "$tmp/summary.json" 2>/dev/null; then r=0; else r=1; fi
 check trend_from_date_is_midnight $r "summary lacks the trend window from 2019-01-01T00:00:00Z"
@@ -171,6 +171,21 @@ expect keys_missing_db 2 'does not exist' -- keys list --db "$tmp/typo.db"
 # (it was an "internal error", exit 1, with the folder the README named).
 expect serve_static_missing 2 "--static $tmp/no-such-dist: not a folder" -- \
   serve --db "$tmp/serve.db" --port 0 --static "$tmp/no-such-dist"
+
+# The end-of-run line counts what was corrected, not what was read; a run that corrects
+# nothing ends with exit 3 and the reason (it said "corrected 2 rows", exit 0).
+printf 'time,level_m\n2010-01-01T00:00:00Z,0.1\n2010-01-01T01:00:00Z,0.2\n' > "$tmp/wl_2010.csv"
+"$exe" correct --observations "$tmp/good.csv" --water-levels "$tmp/wl_2010.csv" --slope 0.1 \
+  --out "$tmp/none.csv" > /dev/null 2> "$tmp/none.err"; got=$?
+[[ $got -eq 3 ]] && grep -qF "corrected 0 of 2 rows on 1 transects (0 accepted; uncorrected: 2 no water level)" "$tmp/none.err" &&
+  grep -qF "no row was corrected (2 no water level)" "$tmp/none.err"
+check nothing_corrected_is_exit_3 $? "exit $got: $(cat "$tmp/none.err")"
+printf 'time,level_m\n2019-03-01T00:00:00Z,0.1\n2019-03-01T01:00:00Z,0.4\n' > "$tmp/wl_part.csv"
+"$exe" correct --observations "$tmp/good.csv" --water-levels "$tmp/wl_part.csv" --slope 0.1 \
+  --out "$tmp/part.csv" > /dev/null 2> "$tmp/part.err"; got=$?
+[[ $got -eq 0 ]] && grep -qF "corrected 1 of 2 rows on 1 transects (" "$tmp/part.err" &&
+  grep -qF "uncorrected: 1 no water level)" "$tmp/part.err"
+check partly_corrected_counts_by_reason $? "exit $got: $(cat "$tmp/part.err")"
 
 # The demo generator has a real parser: --help prints help and writes nothing.
 gen="$build/demo_data/strandline-demo-gen"

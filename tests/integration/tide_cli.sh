@@ -85,9 +85,9 @@ transect_id,time,chainage_m,sensor,image_id
 T1,2019-03-01T00:30:00Z,100.0,landsat8,a
 T1,2019-03-09T01:30:00Z,101.0,landsat8,b
 CSV
-expect correct_prediction 0 'corrected 2 rows' -- correct --observations "$tmp/obs.csv" \
+expect correct_prediction 0 'corrected 2 of 2 rows' -- correct --observations "$tmp/obs.csv" \
   --tide-constituents "$tmp/fit.json" --slope 0.05 --out "$tmp/out1.csv" --summary "$tmp/s1.json"
-expect correct_blended 0 'corrected 2 rows' -- correct --observations "$tmp/obs.csv" --water-levels "$tmp/wl.csv" \
+expect correct_blended 0 'corrected 2 of 2 rows' -- correct --observations "$tmp/obs.csv" --water-levels "$tmp/wl.csv" \
   --tide-constituents "$tmp/fit.json" --slope 0.05 --out "$tmp/out2.csv"
 /usr/bin/python3 - "$tmp" <<'PY' && ok correct_flags || fail correct_flags
 import csv, json, sys
