@@ -4,6 +4,33 @@
 
 namespace strandline {
 
+namespace {
+
+// What the slope step's record says the user should know about the slope.
+std::vector<std::string> slope_cautions(const TransectInfo& t) {
+  std::vector<std::string> out;
+  const nlohmann::json& d = t.slope_details;
+  if (!d.is_object()) return out;
+  auto has_reason = [&](const char* reason) {
+    if (!d.contains("reasons") || !d["reasons"].is_array()) return false;
+    for (const auto& r : d["reasons"])
+      if (r == reason) return true;
+    return false;
+  };
+  if (has_reason("minimum_at_range_edge") && d.contains("search_range")) {
+    out.push_back("the slope's energy minimum lies at an end of the search range [" +
+                  d["search_range"][0].dump() + ", " + d["search_range"][1].dump() +
+                  "]: widen the search range (the run configuration's slope.search_range) rather than rely on the default");
+  }
+  if (t.slope_source == SlopeSource::estimated && d.value("ci_touches_search_range", false))
+    out.push_back("the slope's 95% interval is cut by the search range: the slope may lie outside it");
+  if (t.slope_source == SlopeSource::estimated && d.value("ci_wider_than_value", false))
+    out.push_back("the slope's 95% interval is wider than the slope itself: positions depend strongly on it");
+  return out;
+}
+
+}  // namespace
+
 TransectSummary transect_summary(const SiteTable& table, std::size_t transect, const RunInputs& inputs,
                                  const SummaryOptions& options) {
   const TransectInfo& t = table.transects[transect];
@@ -31,6 +58,11 @@ TransectSummary transect_summary(const SiteTable& table, std::size_t transect, c
   if (t.slope_source == SlopeSource::default_value)
     s.cautions.push_back("default slope: positions depend on an assumed slope");
   if (!t.slope_identifiable) s.cautions.push_back("slope not identifiable from the data");
+  for (std::string& caution : slope_cautions(t)) s.cautions.push_back(std::move(caution));
+  if (s.counts_by_flag.contains(std::string(flag_info(Flag::coarse_gauge).name)))
+    s.cautions.push_back(
+        "water levels interpolated from a gauge sampled more coarsely than ~1 h: the tide between samples is "
+        "reconstructed (see the provenance's harmonic_guide) and its sigma widened; a finer record is better");
   if (t.size() > 0 && s.n_accepted < 0.8 * double(s.n_corrected))
     s.cautions.push_back("more than 20% of the corrected points were rejected");
   TrendPart trend = summarise_trend(table, transect, inputs, options.trend_from_s, options.trend_to_s, s.cautions);

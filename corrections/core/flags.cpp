@@ -43,6 +43,11 @@ const std::vector<FlagInfo>& flag_table() {
        "slope uncertainty unknown: sigma_m omits the slope term"},
       {Flag::sigma_wave_unknown, "sigma_wave_unknown", S::warn,
        "wave-term uncertainty unknown: sigma_m omits it"},
+      {Flag::coarse_gauge, "coarse_gauge", S::warn,
+       "gauge samples around the image time more than the coarse limit apart (~1 h): the level is interpolated "
+       "with a wider sigma"},
+      {Flag::slope_poorly_constrained, "slope_poorly_constrained", S::warn,
+       "the slope's 95% interval touches the search range or is wider than the slope itself"},
   };
   return table;
 }

@@ -35,6 +35,9 @@ enum class Flag : std::uint8_t {
   sigma_water_level_unknown,
   sigma_slope_unknown,
   sigma_wave_unknown,
+  // Appended (stored flag sets keep their bits)
+  coarse_gauge,              // the gauge samples around the image are more than ~1 h apart
+  slope_poorly_constrained,  // the slope's 95% interval touches the search range or exceeds the slope
   count_  // keep last
 };
 

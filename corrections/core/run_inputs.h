@@ -19,6 +19,10 @@ struct WaterLevelAt {
   double level_m = kUnknown;  // on the site datum
   double sigma_m = kUnknown;  // 1-sigma, vertical; unknown when the source cannot say
   bool predicted = false;     // from harmonic constituents rather than a gauge
+  // A gauge value between samples: the estimated interpolation error (added in
+  // quadrature to the level's sigma) and the spacing of the samples around it.
+  double interpolation_sigma_m = 0.0;
+  double sample_interval_s = kUnknown;
 };
 
 class WaterLevelSource {

@@ -129,7 +129,7 @@ SlopeEstimate SlopeSearcher::run(std::span<const double> times_s, std::span<cons
   SlopeEstimate est;
   est.method = linear_x ? "closed_form" : "grid_refine";
   est.remove_seasonal = options.remove_seasonal;
-  est.tan_beta = est.sigma = est.ci95_low = est.ci95_high = est.excursion_m = kNaN;
+  est.tan_beta = est.sigma = est.ci95_low = est.ci95_high = est.excursion_m = est.excursion_min_m = kNaN;
   const std::size_t n = times_s.size();
   est.images_given = n;
   for (std::size_t i = 0; i < n; ++i)
@@ -224,8 +224,8 @@ SlopeEstimate SlopeSearcher::run(std::span<const double> times_s, std::span<cons
   est.tan_beta = 1 / sol.s;
   if (est.images_used < options.min_images) est.reasons.push_back("too_few_images");
   if (sol.at_edge) est.reasons.push_back("minimum_at_range_edge");
-  est.excursion_m = (quantile_of(w_kept, 0.95) - quantile_of(w_kept, 0.05)) / est.tan_beta;
-  if (!(est.excursion_m >= options.min_excursion_m)) est.reasons.push_back("tidal_excursion_below_limit");
+  const double level_range_m = quantile_of(w_kept, 0.95) - quantile_of(w_kept, 0.05);
+  est.excursion_m = level_range_m / est.tan_beta;
 
   // (5) Bootstrap over the kept images. The corrected series is linearised in s
   // at the estimate (exact for the closed-form path), so each resample costs
@@ -268,7 +268,18 @@ SlopeEstimate SlopeSearcher::run(std::span<const double> times_s, std::span<cons
     est.sigma = tans.size() > 1 ? std::sqrt(var / static_cast<double>(tans.size() - 1)) : kNaN;
     est.ci95_low = quantile_of(tans, 0.025);
     est.ci95_high = quantile_of(tans, 0.975);
+    // Resamples are clamped to the search range: an end reached means the
+    // interval is cut there, not that the data stop there.
+    const double edge_tolerance = 1e-9;
+    est.ci_touches_range = est.ci95_low <= options.tan_beta_min * (1 + edge_tolerance) ||
+                           est.ci95_high >= options.tan_beta_max * (1 - edge_tolerance);
+    est.ci_wider_than_value = est.ci95_high - est.ci95_low > est.tan_beta;
   }
+  // Judged on the steepest slope the interval allows, not on the estimate
+  // alone: a wrong, flatter estimate would otherwise pass on its own excursion.
+  const double steepest = options.bootstrap_count > 0 ? std::max(est.ci95_high, est.tan_beta) : est.tan_beta;
+  est.excursion_min_m = level_range_m / steepest;
+  if (!(est.excursion_min_m >= options.min_excursion_m)) est.reasons.push_back("tidal_excursion_below_limit");
 
   // Energy curve over the search range (from the quadratic when exact).
   if (linear_x) {
@@ -313,6 +324,9 @@ nlohmann::json SlopeEstimate::details() const {
                       {"n_images_given", images_given},
                       {"n_images_screened", images_screened},
                       {"horizontal_tidal_excursion_m", excursion_m},
+                      {"horizontal_tidal_excursion_min_m", excursion_min_m},
+                      {"ci_touches_search_range", ci_touches_range},
+                      {"ci_wider_than_value", ci_wider_than_value},
                       {"band", band_json},
                       {"energy_curve", {{"tan_beta", curve_tan}, {"energy", curve_energy}}}};
   if (!band.found && !band.reason.empty()) j["band_reason"] = band.reason;

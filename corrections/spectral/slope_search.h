@@ -18,8 +18,11 @@
 // kept images for sigma and the 95% interval (percentiles); (6) verdict.
 // Not identifiable when: fewer than `min_images` kept, no clear tidal peak, the
 // minimum on the edge of the search range, or the horizontal tidal excursion
-// (q95 - q05 of w over the kept images, divided by tan(beta)) below
+// (q95 - q05 of w over the kept images, divided by the steepest tan(beta) of the
+// 95% interval, so that the verdict holds for every slope the data allow) below
 // `min_excursion_m` (about 10 m: the method's published limit, recalled from memory).
+// An identifiable estimate whose interval reaches an end of the search range or
+// is wider than the slope is marked (ci_touches_range, ci_wider_than_value).
 #pragma once
 
 #include <cstdint>
@@ -84,7 +87,10 @@ struct SlopeEstimate {
   double tan_beta = 0;               // best slope found (NaN when no band)
   double sigma = 0;                  // bootstrap standard deviation (NaN without bootstrap)
   double ci95_low = 0, ci95_high = 0;
-  double excursion_m = 0;
+  double excursion_m = 0;            // horizontal tidal excursion at the estimate
+  double excursion_min_m = 0;        // at the steepest slope of the 95% interval (the one judged)
+  bool ci_touches_range = false;     // the interval reaches an end of the search range
+  bool ci_wider_than_value = false;  // the interval is wider than the slope itself
   std::size_t images_given = 0, images_used = 0, images_screened = 0;
   std::vector<char> kept;            // per input image
   TidalBand band;

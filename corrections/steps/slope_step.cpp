@@ -16,6 +16,29 @@ std::optional<SlopeValue> planned_slope(const SlopePlan& plan, const std::string
   return std::nullopt;
 }
 
+double default_slope_sigma(const SlopeValue& fallback, const SlopePlan& plan, nlohmann::json& details) {
+  // Unstated: the default could be any slope of the search range (uniform: width / sqrt(12)).
+  double sigma = fallback.slope_sigma;
+  std::string basis = "stated";
+  if (!known(sigma) && plan.search_max > plan.search_min) {
+    sigma = (plan.search_max - plan.search_min) / std::sqrt(12.0);
+    basis = "search_range_uniform";
+  }
+  // The data's own minimum, though not accepted, says how far the default may be off.
+  if (details.is_object() && details.contains("tan_beta") && details["tan_beta"].is_number()) {
+    const double found = details["tan_beta"].get<double>();
+    if (std::isfinite(found) && std::abs(found - fallback.slope) > (known(sigma) ? sigma : 0.0)) {
+      sigma = std::abs(found - fallback.slope);
+      basis = "distance_to_data_minimum";
+    }
+  }
+  if (details.is_object()) {
+    details["default_sigma"] = known(sigma) ? nlohmann::json(sigma) : nlohmann::json(nullptr);
+    details["default_sigma_basis"] = basis;
+  }
+  return sigma;
+}
+
 std::uint64_t transect_seed(std::uint64_t seed, const std::string& transect_id) {
   std::uint64_t h = 14695981039346656037ull;
   for (unsigned char c : transect_id) {
@@ -115,7 +138,7 @@ void SlopeStep::process(SiteTable& table, std::size_t transect, const RunInputs&
       return;
     }
     t.slope = inputs.slopes.default_value->slope;
-    t.slope_sigma = inputs.slopes.default_value->slope_sigma;
+    t.slope_sigma = default_slope_sigma(*inputs.slopes.default_value, inputs.slopes, t.slope_details);
     t.slope_source = SlopeSource::default_value;
     flag_all(Flag::default_slope);
     log.count("default");
@@ -175,6 +198,10 @@ void SlopeStep::estimate(SiteTable& table, std::size_t transect, const RunInputs
     return;
   }
   log.count("estimated");
+  if (est.ci_touches_range || est.ci_wider_than_value) {
+    for (std::size_t i = t.begin; i < t.end; ++i) table.add_flag(i, Flag::slope_poorly_constrained);
+    log.count("poorly_constrained");
+  }
   t.slope = est.tan_beta;
   t.slope_sigma = est.sigma;
   t.slope_ci95_low = est.ci95_low;

@@ -60,6 +60,12 @@ std::optional<SlopeValue> planned_slope(const SlopePlan& plan, const std::string
 
 // A per-transect seed: the step's seed mixed with the transect id (FNV-1a), so
 // results do not depend on the order or the number of transects.
+// The 1-sigma a default slope really carries: the stated one, else the spread of
+// a slope uniform over the search range; at least the distance to the data's own
+// (rejected) minimum when the search found one. Records the value and its basis
+// in `details` (the slope_details object) when that is an object.
+double default_slope_sigma(const SlopeValue& fallback, const SlopePlan& plan, nlohmann::json& details);
+
 std::uint64_t transect_seed(std::uint64_t seed, const std::string& transect_id);
 
 }  // namespace strandline

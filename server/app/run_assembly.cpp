@@ -95,6 +95,12 @@ CorrectionCounts correction_counts(const SiteTable& table) {
     else if (has_flag(table.flags[i], Flag::no_water_level)) ++c.no_water_level;
     else if (has_flag(table.flags[i], Flag::no_slope)) ++c.no_slope;
     else ++c.other;
+    if (has_flag(table.flags[i], Flag::coarse_gauge)) ++c.coarse_gauge;
+  }
+  for (const TransectInfo& t : table.transects) {
+    if (!t.slope_details.is_object() || !t.slope_details.contains("reasons")) continue;
+    for (const auto& reason : t.slope_details["reasons"])
+      if (reason == "minimum_at_range_edge") ++c.slope_minimum_at_range_edge;
   }
   return c;
 }

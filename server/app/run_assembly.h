@@ -83,6 +83,8 @@ class PreparedRun {
 struct CorrectionCounts {
   std::size_t rows = 0, corrected = 0, accepted = 0;
   std::size_t no_water_level = 0, no_slope = 0, other = 0;  // uncorrected, by reason
+  std::size_t coarse_gauge = 0;                  // rows between gauge samples over ~1 h apart
+  std::size_t slope_minimum_at_range_edge = 0;   // transects whose search ended on the range
 };
 CorrectionCounts correction_counts(const SiteTable& table);
 

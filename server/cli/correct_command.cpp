@@ -120,6 +120,15 @@ int run_correct(const CommandArgs& argv) {
     if (skip_invalid) std::cerr << "; " << batch.observations.rejected.size() << " rejected input rows in " << *rejected_path;
     std::cerr << ")\ncleaned rows: " << out_path << "\n";
     if (summary_path) std::cerr << "summary: " << *summary_path << "\n";
+    if (counts.coarse_gauge > 0)
+      std::cerr << "warning: " << counts.coarse_gauge
+                << " rows lie between gauge samples more than 1 h apart: their level sigma carries the interpolation "
+                   "error (flag coarse_gauge; the provenance's water_levels.harmonic_guide says whether the record's "
+                   "own tide guided the interpolation); a finer record is better\n";
+    if (counts.slope_minimum_at_range_edge > 0)
+      std::cerr << "hint: " << counts.slope_minimum_at_range_edge
+                << " transect(s) have their slope minimum at an end of the search range: widen it with --slope-range "
+                   "MIN:MAX rather than rely on the default slope\n";
   }
   // The outputs are written (every row with its flags), but a run that corrected nothing is not a success.
   if (counts.corrected == 0) {

@@ -186,6 +186,14 @@ printf 'time,level_m\n2019-03-01T00:00:00Z,0.1\n2019-03-01T01:00:00Z,0.4\n' > "$
 [[ $got -eq 0 ]] && grep -qF "corrected 1 of 2 rows on 1 transects (" "$tmp/part.err" &&
   grep -qF "uncorrected: 1 no water level)" "$tmp/part.err"
 check partly_corrected_counts_by_reason $? "exit $got: $(cat "$tmp/part.err")"
+# A gauge sampled every 2 h: the rows between its samples are counted and the run says so
+# (the level's sigma was a fixed 0.10 m whatever the sampling interval, and nothing was said).
+printf 'time,level_m\n2019-03-01T00:00:00Z,0.1\n2019-03-01T02:00:00Z,0.5\n2019-03-01T04:00:00Z,0.7\n' > "$tmp/wl_2h.csv"
+"$exe" correct --observations "$tmp/good.csv" --water-levels "$tmp/wl_2h.csv" --slope 0.1 \
+  --out "$tmp/coarse.csv" > /dev/null 2> "$tmp/coarse.err"; got=$?
+[[ $got -eq 0 ]] && grep -qF "warning: 2 rows lie between gauge samples more than 1 h apart" "$tmp/coarse.err" &&
+  grep -q "coarse_gauge" "$tmp/coarse.csv"
+check coarse_gauge_is_reported $? "exit $got: $(cat "$tmp/coarse.err")"
 
 # The demo generator has a real parser: --help prints help and writes nothing.
 gen="$build/demo_data/strandline-demo-gen"

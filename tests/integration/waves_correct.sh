@@ -116,8 +116,10 @@ for mode, method in (("setup", "closed_form"), ("runup", "grid_refine")):
         if not ok:
             failures += 1
             print("  MISMATCH")
-    # Every transect with an estimate (the generator's steep one may have none) is checked: not zero.
-    if checked < n_transects - 1:
+    # Every transect with an estimate is checked: not zero. The generator's steep one (0.25) has
+    # none, nor has its 0.12 one: the steepest slope of its 95% interval leaves a horizontal
+    # tidal excursion just under the method's 10 m limit, so it is not identifiable.
+    if checked < n_transects - 2:
         failures += 1
         print(f"  MISMATCH: only {checked} of {n_transects} transects compared with --slope auto {mode}")
 auto = {(r["transect_id"], r["image_id"]): r for r in csv.DictReader(open("auto_setup.csv"))}

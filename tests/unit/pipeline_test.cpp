@@ -39,7 +39,7 @@ TEST(SiteTableBuilder, SortsTransectsByIdAndTime) {
 
 TEST(Pipeline, CorrectsToReferenceContour) {
   SiteTable table = two_transects();
-  GaugeSeries gauge({0, 10000}, {-1.0, 1.0}, 0.1);  // level = -1 + 2 t / 10000
+  GaugeSeries gauge({0, 5000, 10000}, {-1.0, 0.0, 1.0}, 0.1);  // level = -1 + 2 t / 10000 (no curvature)
   RunInputs in;
   const SensorTable sensors = SensorTable::defaults();
   in.sensors = &sensors;
@@ -72,7 +72,7 @@ TEST(Pipeline, CorrectsToReferenceContour) {
 
 TEST(Pipeline, OutsideRecordIsFlaggedNotExtrapolated) {
   SiteTable table = two_transects();
-  GaugeSeries gauge({1500, 10000}, {0.0, 1.0}, 0.1);  // starts after the first image
+  GaugeSeries gauge({1500, 5750, 10000}, {0.0, 0.5, 1.0}, 0.1);  // starts after the first image
   RunInputs in;
   in.water_levels = &gauge;
   in.slopes.all = SlopeValue{0.1, 0.01};
@@ -88,7 +88,7 @@ TEST(Pipeline, OutsideRecordIsFlaggedNotExtrapolated) {
 
 TEST(Pipeline, MissingSlopeFlagsAndDefaultSlopeWarns) {
   SiteTable table = two_transects();
-  GaugeSeries gauge({0, 10000}, {0.0, 1.0}, 0.1);
+  GaugeSeries gauge({0, 5000, 10000}, {0.0, 0.5, 1.0}, 0.1);
   RunInputs in;
   in.water_levels = &gauge;
   in.slopes.per_transect["A"] = {0.05, 0.005};
@@ -107,7 +107,7 @@ TEST(Pipeline, MissingSlopeFlagsAndDefaultSlopeWarns) {
 
 TEST(Pipeline, SameResultWithOneOrManyThreads) {
   SiteTable a = two_transects(), b = two_transects();
-  GaugeSeries gauge({0, 10000}, {0.0, 1.0}, 0.1);
+  GaugeSeries gauge({0, 5000, 10000}, {0.0, 0.5, 1.0}, 0.1);
   RunInputs in;
   in.water_levels = &gauge;
   in.slopes.all = SlopeValue{0.1, 0.01};

@@ -213,7 +213,7 @@ TEST(StepParams, MessagesNameTheJsonPointer) {
 // values and number types: 45.0 stays a float, 7 an integer).
 TEST(StepParams, EffectiveDefaultsKeepTheirProvenanceShape) {
   const auto expected = nlohmann::json::parse(R"({
-    "water_level": {"max_gap_s": 10800.0, "sigma_m": 0.1},
+    "water_level": {"coarse_interval_s": 3600.0, "max_gap_s": 10800.0, "sigma_m": 0.1},
     "wave_conditions": {"max_gap_s": 10800.0},
     "slope": {"f_min_cpd": 0.0025, "f_max_cpd": 0.1, "n_frequencies": 4000, "band_half_width_cpd": 0.000864,
               "min_peak_to_median": 20.0, "min_images": 40, "min_excursion_m": 10.0, "bootstrap_count": 200,

@@ -22,6 +22,8 @@ export const FLAGS = {
   sigma_water_level_unknown: ['warns', 'water-level term unknown: sigma omits it'],
   sigma_slope_unknown: ['warns', 'slope term unknown (no slope sigma): sigma omits it'],
   sigma_wave_unknown: ['warns', 'wave term unknown: sigma omits it'],
+  coarse_gauge: ['warns', 'gauge samples more than ~1 h apart around the image: interpolated, wider sigma'],
+  slope_poorly_constrained: ['warns', 'the slope interval touches the search range or is wider than the slope'],
 };
 
 export function flagSeverity(name) {
