@@ -66,7 +66,8 @@ synthetic::SiteParams pattern(bool five_day, std::uint64_t seed) {
   return p;
 }
 
-Recovery recover(const synthetic::SiteParams& params, SiteTable& table, const synthetic::Site& site) {
+Recovery recover(const synthetic::SiteParams& params, SiteTable& table, const synthetic::Site& site,
+                 GaugeOptions gauge_options = {}) {
   SiteTableBuilder b;
   for (std::size_t k = 0; k < site.points.size(); ++k) {
     const auto& p = site.points[k];
@@ -75,7 +76,7 @@ Recovery recover(const synthetic::SiteParams& params, SiteTable& table, const sy
           {static_cast<std::uint32_t>(k), p.time_s, p.chainage_raw_m, p.cloud_fraction, p.georef_rmse_m});
   }
   table = std::move(b).build();
-  GaugeSeries gauge(site.gauge_times_s, site.gauge_levels_m, 0.1);
+  GaugeSeries gauge(site.gauge_times_s, site.gauge_levels_m, 0.1, gauge_options);
   const SensorTable sensors = SensorTable::defaults();
   RunInputs in;
   in.water_levels = &gauge;
@@ -185,6 +186,22 @@ TEST(SlopeRecovery, ThreeHourlyGaugeIntervalsCoverTheTruth) {
   }
   std::printf("3-hourly gauge: mean signed error %.2f%%, 95%% interval covers the truth %zu/%zu\n",
               100 * mean_signed, covered, total);
+  // For the record (tests/bench/RESULTS.md): the same sites with plain linear interpolation.
+  std::size_t plain_covered = 0;
+  double plain_signed = 0;
+  for (std::uint64_t seed : seeds) {
+    synthetic::SiteParams params = pattern(true, seed);
+    params.gauge_step_s = 3 * 3600.0;
+    const synthetic::Site site = synthetic::generate_site(params);
+    SiteTable table;
+    testing::internal::CaptureStdout();
+    const Recovery r = recover(params, table, site, GaugeOptions{.guide_interval_s = 0});
+    testing::internal::GetCapturedStdout();
+    plain_covered += r.covered;
+    plain_signed += r.mean_signed_relative / static_cast<double>(seeds.size());
+  }
+  std::printf("3-hourly gauge, plain linear interpolation: mean signed error %.2f%%, covers %zu/%zu\n",
+              100 * plain_signed, plain_covered, total);
   EXPECT_EQ(total, 40u);
   EXPECT_GE(covered, 36u);
   EXPECT_LT(std::abs(mean_signed), 0.015);
