@@ -4,6 +4,7 @@
 // before and after correction by sensor class. Usage:
 //   qc_detection [--seed N] [--seeds K] [--config pipeline.json]
 //                [--layout parallel|gentle|curved|fanned|all] [--geometry on|off|both] [--table]
+//                [--shift-m M]   (size of the planted whole-image shifts, default 60 m)
 // Prints one JSON object per seed and the pooled figures; with --table only one
 // Markdown row per layout and geometry of the whole-image misregistration figures.
 // Layouts (total azimuth span of the 20 transects): parallel 0 deg (a straight
@@ -43,6 +44,7 @@ int main(int argc, char** argv) {
   int seeds = 1;
   bool table = false;
   std::string layout_arg = "curved", geometry_arg = "on";
+  double shift_m = synthetic::SiteParams::defaults().misregistration_m;
   nlohmann::json config = nlohmann::json::object();
   for (int a = 1; a < argc; ++a) {
     const std::string key = argv[a];
@@ -59,6 +61,7 @@ int main(int argc, char** argv) {
     else if (key == "--seeds") seeds = std::atoi(value.c_str());
     else if (key == "--layout") layout_arg = value;
     else if (key == "--geometry") geometry_arg = value;
+    else if (key == "--shift-m") shift_m = std::strtod(value.c_str(), nullptr);
     else if (key == "--config") {
       std::ifstream in(value);
       config = nlohmann::json::parse(in);
@@ -91,6 +94,7 @@ int main(int argc, char** argv) {
         auto params = synthetic::SiteParams::defaults();
         params.seed = seed + s;
         params.azimuth_span_deg = layout.azimuth_span_deg;
+        params.misregistration_m = shift_m;
         const auto start = std::chrono::steady_clock::now();
         auto run = bench::run_generated_site(params, config, with_geometry);
         const double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
