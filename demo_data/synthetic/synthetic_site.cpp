@@ -99,8 +99,13 @@ Site generate_site(const SiteParams& params) {
 
   // ---- transects along a gently curved bay: an arc whose seaward normals point to its centre
   const int n = params.n_transects;
-  // A bay of 3 km radius; longer coasts get a larger radius so the arc stays under 0.7 rad.
-  const double radius_m = std::max(3000.0, n * params.spacing_m / 0.7);
+  // A bay of 3 km radius; longer coasts get a larger radius so the arc stays under 0.7 rad
+  // (azimuth_span_deg, when set, gives the radius instead).
+  double radius_m = std::max(3000.0, n * params.spacing_m / 0.7);
+  if (params.azimuth_span_deg && !(*params.azimuth_span_deg >= 0 && *params.azimuth_span_deg <= 180))
+    throw std::invalid_argument("azimuth_span_deg must be within [0, 180]");
+  const bool straight = params.azimuth_span_deg && (*params.azimuth_span_deg == 0 || n == 1);
+  if (params.azimuth_span_deg && !straight) radius_m = (n - 1) * params.spacing_m / (*params.azimuth_span_deg * kDegToRad);
   const double centre_x = 431000.0, centre_y = 5902000.0;  // work CRS metres (demo: EPSG:32631)
   std::vector<double> slopes = params.slopes;
   if (slopes.empty()) {
@@ -124,12 +129,14 @@ Site generate_site(const SiteParams& params) {
     tr.trend_m_per_yr = params.trend_sigma_m_per_yr * normal(rng);
     tr.seasonal_amplitude_m = params.seasonal_amplitude_m * (0.7 + 0.6 * uniform(rng));
     tr.seasonal_phase_deg = 30.0 + 20.0 * normal(rng);  // most seaward about February
-    const double angle = (-0.5 * (n - 1) + i) * params.spacing_m / radius_m;  // radians along the arc
-    // Baseline 450 m landward of the arc; transects point toward the bay centre.
+    const double along_m = (-0.5 * (n - 1) + i) * params.spacing_m;
+    const double angle = straight ? 0.0 : along_m / radius_m;  // radians along the arc
+    // Baseline 450 m landward of the arc; transects point toward the bay centre
+    // (a straight coast: the baseline north of the centre, transects due south).
     const double azimuth = std::fmod(180.0 + angle / kDegToRad + 360.0, 360.0);
     tr.azimuth_deg = azimuth;
-    tr.origin_x_m = centre_x - (radius_m + 450.0) * std::sin(azimuth * kDegToRad);
-    tr.origin_y_m = centre_y - (radius_m + 450.0) * std::cos(azimuth * kDegToRad);
+    tr.origin_x_m = straight ? centre_x + along_m : centre_x - (radius_m + 450.0) * std::sin(azimuth * kDegToRad);
+    tr.origin_y_m = straight ? centre_y + radius_m + 450.0 : centre_y - (radius_m + 450.0) * std::cos(azimuth * kDegToRad);
     tr.length_m = 500.0;
     site.transects.push_back(tr);
   }

@@ -14,6 +14,7 @@
 
 #include <cstdint>
 #include <functional>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -66,6 +67,9 @@ struct SiteParams {
   std::string site_name = "Gullwing Bay";  // invented
   int n_transects = 20;
   double spacing_m = 100;
+  // Total azimuth span of the transects along the coast: empty = the default bay
+  // (3 km radius, or an arc under 0.7 rad), 0 = a straight coast (parallel transects).
+  std::optional<double> azimuth_span_deg;
   double first_year = 1999, last_year = 2025;
   double z_ref_m = 0.0;
   std::vector<SensorPlan> sensors;  // empty = a default mix (see defaults())

@@ -5,6 +5,7 @@
 //                   (kMadToSigma * MAD of corrected - true over unplanted points)
 //   good point      no planted offset
 // Only corrected points are scored (an uncorrected point is rejected anyway).
+// The whole-image step is also scored alone (its flag, per point and per image).
 #pragma once
 
 #include <algorithm>
@@ -34,11 +35,12 @@ struct GeneratedRun {
   RunRecord record;
 };
 
-// Generates the site, loads it with transect geometry, true slopes (sigma
-// 0.005), the gauge record and the wave record (setup correction), and runs
-// the pipeline of `config`.
+// Generates the site, loads it with transect geometry (unless `with_geometry`
+// is false), true slopes (sigma 0.005), the gauge record and the wave record
+// (setup correction), and runs the pipeline of `config`.
 inline std::unique_ptr<GeneratedRun> run_generated_site(const synthetic::SiteParams& params,
-                                                        const nlohmann::json& config = nlohmann::json::object()) {
+                                                        const nlohmann::json& config = nlohmann::json::object(),
+                                                        bool with_geometry = true) {
   auto run = std::make_unique<GeneratedRun>();
   run->site = synthetic::generate_site(params);
   const auto& site = run->site;
@@ -52,7 +54,7 @@ inline std::unique_ptr<GeneratedRun> run_generated_site(const synthetic::SitePar
   run->table = std::move(b).build();
   for (auto& t : run->table.transects)
     for (const auto& truth : site.transects)
-      if (truth.id == t.id) t.geometry = {truth.origin_x_m, truth.origin_y_m, truth.azimuth_deg, truth.length_m};
+      if (with_geometry && truth.id == t.id) t.geometry = {truth.origin_x_m, truth.origin_y_m, truth.azimuth_deg, truth.length_m};
   run->gauge = std::make_unique<GaugeSeries>(site.gauge_times_s, site.gauge_levels_m, 0.1);
   std::vector<WaveSample> samples;
   for (const auto& w : site.waves) samples.push_back({w.time_s, w.hs_m, w.tp_s, w.dir_deg, kUnknown});
@@ -77,6 +79,20 @@ struct DetectionFigures {
   std::map<std::string, std::size_t> gross_by_kind, gross_rejected_by_kind;
   struct Rmse { double before2 = 0, after2 = 0; std::size_t n = 0; };
   std::map<std::string, Rmse> rmse_by_class;  // accepted points
+  // The whole-image step alone, on the points image_quality kept (the step sees
+  // no others): gross misregistration points and good points carrying
+  // image_misregistered; images with a planted shift and such a gross point,
+  // images without a planted shift (with such a point), and how many of each it
+  // flagged. Plus the gross misregistration points any filter left accepted.
+  struct Misregistration {
+    std::size_t gross = 0, gross_flagged = 0, good = 0, good_flagged = 0;
+    std::size_t gross_all = 0, gross_all_accepted = 0;
+    std::size_t images_planted = 0, images_planted_flagged = 0, images_clean = 0, images_clean_flagged = 0;
+    double recall() const { return gross ? double(gross_flagged) / gross : 1.0; }
+    double image_recall() const { return images_planted ? double(images_planted_flagged) / images_planted : 1.0; }
+    double image_false_positive_rate() const { return images_clean ? double(images_clean_flagged) / images_clean : 0.0; }
+    double false_positive_rate() const { return good ? double(good_flagged) / good : 0.0; }
+  } misregistration;
   double recall() const { return gross ? double(gross_rejected) / gross : 1.0; }
   double false_positive_rate() const { return good ? double(good_rejected) / good : 0.0; }
   double storm_kept_share() const { return storm ? double(storm_kept) / storm : 1.0; }
@@ -100,12 +116,25 @@ inline DetectionFigures score_detection(const GeneratedRun& run) {
     const double med = median_in_place(w);
     noise[tr] = kMadToSigma * mad_about(e, med);
   }
+  enum : char { kSeen = 1, kGross = 2, kFlagged = 4 };
+  std::vector<char> image_state(site.images.size(), 0);
+  const FlagSet image_quality = flag_bit(Flag::cloudy_image) | flag_bit(Flag::poor_georeference);
+  auto& m = f.misregistration;
   for (std::size_t i = 0; i < table.size(); ++i) {
     if (!known(table.chainage_m[i])) continue;
     ++f.corrected;
     const auto& p = site.points[table.input_row[i]];
     const bool accepted = table.accepted(i);
+    const bool misregistered = has_flag(table.flags[i], Flag::image_misregistered);
     const double size = std::abs(p.outlier_offset_m);
+    const bool gross = p.outlier != synthetic::OutlierKind::none && size > 40 && size > 4 * noise[table.transect[i]];
+    const bool gross_misregistered = gross && p.outlier == synthetic::OutlierKind::misregistration;
+    if (gross_misregistered) ++m.gross_all, m.gross_all_accepted += accepted ? 1 : 0;
+    if ((table.flags[i] & image_quality) == 0) {
+      image_state[p.image] |= kSeen | (misregistered ? kFlagged : 0) | (gross_misregistered ? kGross : 0);
+      if (gross_misregistered) ++m.gross, m.gross_flagged += misregistered ? 1 : 0;
+      if (p.outlier == synthetic::OutlierKind::none) ++m.good, m.good_flagged += misregistered ? 1 : 0;
+    }
     if (p.outlier == synthetic::OutlierKind::none) {
       ++f.good;
       if (!accepted) {
@@ -120,7 +149,7 @@ inline DetectionFigures score_detection(const GeneratedRun& run) {
       }
     } else {
       const std::string kind(synthetic::outlier_kind_name(p.outlier));
-      if (size > 40 && size > 4 * noise[table.transect[i]]) {
+      if (gross) {
         ++f.gross;
         ++f.gross_by_kind[kind];
         if (!accepted) ++f.gross_rejected, ++f.gross_rejected_by_kind[kind];
@@ -138,7 +167,25 @@ inline DetectionFigures score_detection(const GeneratedRun& run) {
       ++r.n;
     }
   }
+  for (std::size_t im = 0; im < site.images.size(); ++im) {
+    const bool planted = site.images[im].shift_x_m != 0 || site.images[im].shift_y_m != 0;
+    const bool flagged = image_state[im] & kFlagged;
+    if (planted && (image_state[im] & kGross)) ++m.images_planted, m.images_planted_flagged += flagged ? 1 : 0;
+    if (!planted && (image_state[im] & kSeen)) ++m.images_clean, m.images_clean_flagged += flagged ? 1 : 0;
+  }
   return f;
+}
+
+// The image_misregistration step's counts from the run's provenance (images
+// tested per model, not testable, explained by storm, rejected).
+inline std::map<std::string, std::int64_t> misregistration_counts(const GeneratedRun& run) {
+  std::map<std::string, std::int64_t> counts;
+  for (const auto& s : run.record.steps)
+    if (s.step == "image_misregistration")
+      for (const char* key : {"images_tested", "images_tested_2d", "images_tested_common_offset", "images_not_testable",
+                              "images_explained_by_storm", "images_rejected"})
+        counts[key] = s.log.count_of(key);
+  return counts;
 }
 
 inline nlohmann::json DetectionFigures::to_json() const {
@@ -166,6 +213,16 @@ inline nlohmann::json DetectionFigures::to_json() const {
           {"storm_response_kept_share", storm_kept_share()},
           {"storm_response_rejected_by_flag", storm_rejected_by_flag},
           {"recall_by_offset_bin", bins_json},
+          {"image_misregistration",
+           {{"gross_points", misregistration.gross}, {"gross_flagged", misregistration.gross_flagged},
+            {"recall", misregistration.recall()}, {"good_points", misregistration.good},
+            {"good_flagged", misregistration.good_flagged},
+            {"gross_points_all", misregistration.gross_all},
+            {"gross_points_all_accepted", misregistration.gross_all_accepted},
+            {"images_planted", misregistration.images_planted},
+            {"images_planted_flagged", misregistration.images_planted_flagged},
+            {"images_clean", misregistration.images_clean},
+            {"images_clean_flagged", misregistration.images_clean_flagged}}},
           {"accepted_rmse_by_sensor_class", rmse}};
 }
 

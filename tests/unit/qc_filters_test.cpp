@@ -2,6 +2,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <functional>
 #include <numbers>
 
 #include "corrections/core/errors.h"
@@ -234,6 +235,89 @@ TEST(QcImageMisregistration, CommonOffsetWithoutGeometryAndNoFalseAlarm) {
   set_geometry(clean);
   run_site_step(*ImageMisregistrationStep::make(nullptr, "/steps/image_misregistration"), clean, RunInputs{});
   EXPECT_EQ(count_flag(clean, Flag::image_misregistered), 0u);
+}
+
+namespace {
+// 12 transects with azimuths az_deg(tr) (origins 100 m apart alongshore), 60
+// images 5 days apart, image `bad_image` shifted by (shift_x_m, shift_y_m).
+SiteTable layout_site(const std::function<double(int)>& az_deg, double shift_x_m, double shift_y_m,
+                      std::size_t bad_image) {
+  std::vector<Obs> obs;
+  std::size_t k = 0;
+  for (int im = 0; im < 60; ++im)
+    for (int tr = 0; tr < 12; ++tr) {
+      const double az = az_deg(tr) * std::numbers::pi / 180.0;
+      double x = 200 + 10 * std::sin(0.3 * tr) + 3 * wobble(k++);
+      if (im == static_cast<int>(bad_image)) x += shift_x_m * std::sin(az) + shift_y_m * std::cos(az);
+      char id[8];
+      std::snprintf(id, sizeof id, "T%02d", tr);
+      obs.push_back({id, "img" + std::to_string(im), "landsat8", im * 5.0, x});
+    }
+  SiteTable table = make_table(obs);
+  for (auto& t : table.transects) {
+    const int tr = std::stoi(t.id.substr(1));
+    t.geometry = {100.0 * tr, 0.0, az_deg(tr), 500};
+  }
+  return table;
+}
+
+nlohmann::json run_misregistration(SiteTable& table, StepLog& log) {
+  const auto step = ImageMisregistrationStep::make(nullptr, "/steps/image_misregistration");
+  static_cast<const SiteStep&>(*step).run(table, RunInputs{}, log);
+  return log.to_json();
+}
+}  // namespace
+
+// A straight coast: every azimuth is 200 deg, so dx and dy cannot be separated;
+// the shift (30, -40) is seen as 30 sin 200 - 40 cos 200 = +27.3 m on every transect.
+TEST(QcImageMisregistration, ParallelTransectsWithGeometryFallBackToTheCommonOffset) {
+  auto table = layout_site([](int) { return 200.0; }, 30, -40, 25);
+  StepLog log;
+  const auto prov = run_misregistration(table, log);
+  SCOPED_TRACE(prov.dump());
+  for (std::size_t i = 0; i < table.size(); ++i)
+    EXPECT_EQ(has_flag(table.flags[i], Flag::image_misregistered), table.image_ids[table.image[i]] == "img25") << i;
+  EXPECT_EQ(log.count_of("images_tested"), 60);
+  EXPECT_EQ(log.count_of("images_tested_common_offset"), 60);
+  EXPECT_EQ(log.count_of("images_tested_2d"), 0);
+  EXPECT_EQ(log.count_of("images_not_testable"), 0);
+  const auto& rejected = prov.at("notes").at("rejected_images");
+  ASSERT_EQ(rejected.size(), 1u);
+  EXPECT_EQ(rejected[0].at("model"), "common_offset");
+  EXPECT_NEAR(rejected[0].at("offset_m").get<double>(), 30 * std::sin(200 * std::numbers::pi / 180) -
+                                                            40 * std::cos(200 * std::numbers::pi / 180), 3.0);
+  EXPECT_LT(rejected[0].at("azimuth_spread_deg").get<double>(), 1e-3);
+}
+
+// Azimuths 195.0..196.1 deg: the 2-D fit is solvable but the alongshore part of
+// the shift is not resolved (spread ~0.3 deg, below min_azimuth_spread_deg 3).
+TEST(QcImageMisregistration, NearlyParallelTransectsUseTheCommonOffset) {
+  auto table = layout_site([](int tr) { return 195.0 + 0.1 * tr; }, 30, -40, 25);
+  StepLog log;
+  const auto prov = run_misregistration(table, log);
+  SCOPED_TRACE(prov.dump());
+  EXPECT_EQ(log.count_of("images_tested_common_offset"), 60);
+  const auto& rejected = prov.at("notes").at("rejected_images");
+  ASSERT_EQ(rejected.size(), 1u);
+  EXPECT_EQ(rejected[0].at("image_id"), "img25");
+  EXPECT_EQ(rejected[0].at("model"), "common_offset");
+}
+
+// A fan of azimuths 120..241 deg: the 2-D shift is identifiable and recovered.
+TEST(QcImageMisregistration, FannedTransectsFitTheTwoDimensionalShift) {
+  auto table = layout_site([](int tr) { return 120.0 + 11.0 * tr; }, 30, -40, 25);
+  StepLog log;
+  const auto prov = run_misregistration(table, log);
+  SCOPED_TRACE(prov.dump());
+  for (std::size_t i = 0; i < table.size(); ++i)
+    EXPECT_EQ(has_flag(table.flags[i], Flag::image_misregistered), table.image_ids[table.image[i]] == "img25") << i;
+  EXPECT_EQ(log.count_of("images_tested_2d"), 60);
+  EXPECT_EQ(log.count_of("images_tested_common_offset"), 0);
+  const auto& rejected = prov.at("notes").at("rejected_images");
+  ASSERT_EQ(rejected.size(), 1u);
+  EXPECT_EQ(rejected[0].at("model"), "2d_shift");
+  EXPECT_NEAR(rejected[0].at("shift_x_m").get<double>(), 30, 3.0);
+  EXPECT_NEAR(rejected[0].at("shift_y_m").get<double>(), -40, 3.0);
 }
 
 TEST(QcAlongshore, OnePointAtOddsWithItsNeighbours) {
