@@ -35,11 +35,13 @@ void UncertaintyStep::process(SiteTable& table, std::size_t transect, const RunI
     double s_wave = 0.0;
     const bool wave_term_used = inputs.waves != nullptr && inputs.wave_correction != WaveCorrection::none &&
                                 known(table.wave_level_m[i]);
-    // With `runup` the wave term R2%/tan(beta) depends on the slope too (the
-    // setup's horizontal term does not): it adds a level c to |eta - z_ref|.
-    const double slope_level_m = wave_term_used && inputs.wave_correction == WaveCorrection::runup
-                                     ? runup_slope_sensitivity_level_m(table.hs0_m[i], table.l0_m[i], slope)
-                                     : 0.0;
+    // A wave term whose horizontal shift depends on the slope (R2%; the setup
+    // on a dissipative beach, not the general setup) adds a level c to |eta - z_ref|.
+    double slope_level_m = 0.0;
+    if (wave_term_used && inputs.wave_correction == WaveCorrection::runup)
+      slope_level_m = runup_slope_sensitivity_level_m(table.hs0_m[i], table.l0_m[i], slope);
+    else if (wave_term_used && inputs.wave_correction == WaveCorrection::setup)
+      slope_level_m = setup_slope_sensitivity_level_m(table.hs0_m[i], table.l0_m[i], slope);
     const double s_slope =
         t.slope_sigma * std::abs(table.water_level_m[i] - t.z_ref_m + slope_level_m) / (slope * slope);
     if (wave_term_used) s_wave = table.wave_sigma_m[i] / slope;

@@ -167,6 +167,7 @@ void SlopeStep::estimate(SiteTable& table, std::size_t transect, const RunInputs
   spectral::SlopeSearchOptions seeded = options;
   seeded.seed = transect_seed(options.seed, t.id);
   spectral::SlopeEstimate est;
+  nlohmann::json setup_classes;  // with `setup`: how many images took the dissipative setup
   if (waves && inputs.wave_correction == WaveCorrection::runup) {
     // R2% depends on the slope: grid + refine with the runup at each candidate.
     spectral::CorrectedSeriesFn corrected = [&](double tan_beta, std::span<double> out) {
@@ -177,19 +178,44 @@ void SlopeStep::estimate(SiteTable& table, std::size_t transect, const RunInputs
       }
     };
     est = searcher_->estimate(times, w, corrected, seeded);
+  } else if (!waves) {
+    est = searcher_->estimate({times, x, w, {}}, seeded);
   } else {
-    std::vector<double> horizontal;
-    if (waves) {
-      horizontal.resize(x.size(), 0.0);
-      for (std::size_t k = 0; k < x.size(); ++k)
-        if (known(h0[k]) && known(l0[k])) horizontal[k] = setup_horizontal_m(h0[k], l0[k]);
+    // The general setup is slope-free horizontally (0.35 sqrt(H0 L0)); the
+    // dissipative one (0.016 sqrt(H0 L0), xi0 < 0.3) is a level, so its image's
+    // waterline level w gains it. The class depends on the slope: start from the
+    // general form, classify at the estimate, solve again until the classes stand.
+    std::vector<double> horizontal(x.size(), 0.0), level(x.size());
+    std::vector<char> dissipative(x.size(), 0);
+    std::size_t solves = 0, dissipative_images = 0;
+    bool settled = false;
+    while (!settled && solves < 5) {
+      ++solves;
+      for (std::size_t k = 0; k < x.size(); ++k) {
+        const bool sea_state = known(h0[k]) && known(l0[k]);
+        const double setup_level = sea_state && dissipative[k] ? kStockdonDissipativeSetupCoefficient * std::sqrt(h0[k] * l0[k]) : 0.0;
+        horizontal[k] = sea_state && !dissipative[k] ? setup_horizontal_m(h0[k], l0[k]) : 0.0;
+        level[k] = w[k] + setup_level;
+      }
+      est = searcher_->estimate({times, x, level, horizontal}, seeded);
+      if (!std::isfinite(est.tan_beta)) break;
+      bool changed = false;
+      dissipative_images = 0;
+      for (std::size_t k = 0; k < x.size(); ++k) {
+        const char now = known(h0[k]) && known(l0[k]) && stockdon_terms(h0[k], l0[k], est.tan_beta).dissipative;
+        changed = changed || now != dissipative[k];
+        dissipative[k] = now;
+        dissipative_images += now ? 1 : 0;
+      }
+      settled = !changed;
     }
-    est = searcher_->estimate({times, x, w, horizontal}, seeded);
+    setup_classes = {{"dissipative_images", dissipative_images}, {"solves", solves}, {"settled", settled}};
   }
   t.slope_details = est.details();
   t.slope_details["wave_term"] = waves ? std::string(inputs.wave_correction == WaveCorrection::runup ? "runup" : "setup")
                                        : std::string("none");
   t.slope_details["search_range"] = {options.tan_beta_min, options.tan_beta_max};
+  if (!setup_classes.is_null()) t.slope_details["setup_regimes"] = setup_classes;
   t.slope_identifiable = est.identifiable;
   for (const auto& reason : est.reasons) log.count("reason_" + reason);
   if (!est.identifiable) {

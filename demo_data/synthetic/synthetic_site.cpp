@@ -291,7 +291,11 @@ Site generate_site(const SiteParams& params) {
                           tr.seasonal_amplitude_m * std::cos(2 * std::numbers::pi * frac_year - tr.seasonal_phase_deg * kDegToRad) +
                           storm;
       p.water_level_m = eta;
-      p.setup_m = (params.waves && params.waves_in_data) ? 0.35 * tr.slope * std::sqrt(hs * l0) : 0.0;
+      // Stockdon et al. (2006): 0.35 tan(beta) sqrt(H0 L0) (eq. 10), or 0.016 sqrt(H0 L0) on a
+      // dissipative beach, tan(beta) / sqrt(H0 / L0) < 0.3 (eq. 16; recalled from memory).
+      const bool dissipative = hs > 0 && tr.slope / std::sqrt(hs / l0) < 0.3;
+      const double setup_m = dissipative ? 0.016 * std::sqrt(hs * l0) : 0.35 * tr.slope * std::sqrt(hs * l0);
+      p.setup_m = (params.waves && params.waves_in_data) ? setup_m : 0.0;
       const double eta_seen = tr.tide_scale * (eta - params.z_ref_m) + params.z_ref_m + p.setup_m;
       const double waterline = p.true_chainage_m - (eta_seen - params.z_ref_m) / tr.slope;
       double offset = 0;

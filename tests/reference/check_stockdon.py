@@ -4,7 +4,7 @@ computation of the same published method:
   - H0 from the recorded Hs deshoaled with linear theory (dispersion root by
     scipy.optimize.brentq, Ks = sqrt(Cg0 / Cg)), L0 = g T^2 / 2 pi;
   - Stockdon, Holman, Howd & Sallenger (2006, Coastal Engineering 53): setup
-    0.35 b q (eq. 10), S_inc 0.75 b q (eq. 11), S_ig 0.06 q (eq. 12), R2 =
+    0.35 b q (eq. 10), or 0.016 q on a dissipative beach, xi0 < 0.3 (eq. 16), S_inc 0.75 b q (eq. 11), S_ig 0.06 q (eq. 12), R2 =
     1.1 (0.35 b q + q sqrt(0.563 b^2 + 0.004) / 2) for xi0 >= 0.3 (eq. 19 as
     printed), R2 = 0.043 q for xi0 < 0.3 (eq. 18), q = sqrt(H0 L0), xi0 = b /
     sqrt(H0 / L0) (coefficients and equation numbers recalled from memory);
@@ -41,17 +41,20 @@ def expected(hs, tp, slope, depth):
     h0 = deshoal(hs, tp, depth)
     l0 = G * tp ** 2 / (2 * np.pi)
     q = np.sqrt(h0 * l0)
-    setup = 0.35 * slope * q
+    setup_general = 0.35 * slope * q
+    setup_diss = 0.016 * q  # eq. 16, xi0 < 0.3
     s_inc = 0.75 * slope * q
     s_ig = 0.06 * q
     swash = q * np.sqrt(0.563 * slope ** 2 + 0.004)  # eq. 19 as printed
     xi = slope / np.sqrt(h0 / l0)
-    r2_general = 1.1 * (setup + swash / 2)
+    r2_general = 1.1 * (setup_general + swash / 2)
+    setup = setup_diss if xi < 0.3 else setup_general
     r2_diss = 0.043 * q
-    return {"h0_m": h0, "l0_m": l0, "iribarren": xi, "setup_m": setup, "incident_swash_m": s_inc,
+    return {"h0_m": h0, "l0_m": l0, "iribarren": xi, "setup_m": setup, "setup_general_m": setup_general,
+            "setup_dissipative_m": setup_diss, "incident_swash_m": s_inc,
             "infragravity_swash_m": s_ig, "total_swash_m": swash, "r2_general_m": r2_general,
             "r2_dissipative_m": r2_diss, "r2_m": r2_diss if xi < 0.3 else r2_general,
-            "setup_horizontal_m": 0.35 * q}, xi < 0.3
+            "setup_horizontal_m": setup / slope}, xi < 0.3
 
 
 def main():

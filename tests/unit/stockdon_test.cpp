@@ -43,14 +43,38 @@ TEST(Stockdon, DissipativeFormBelowIribarrenPointThree) {
   EXPECT_FALSE(above.dissipative);
   EXPECT_NEAR(below.runup_m, 0.043 * q, 1e-12);
   EXPECT_NEAR(above.runup_m, above.runup_general_m, 1e-12);
-  // Setup keeps its general, slope-proportional form in both regimes.
-  EXPECT_NEAR(below.setup_m, 0.35 * 0.999 * slope_at_switch * q, 1e-12);
+  // Setup: eq. 16 (0.016 q) below the switch, eq. 10 (0.35 beta q) above; eq. 19
+  // keeps the general setup inside R2% (Stockdon et al. 2006; constants recalled
+  // from memory, the abstract states dissipative setup depends on H0 and L0 only).
+  EXPECT_NEAR(below.setup_m, 0.016 * q, 1e-12);
+  EXPECT_NEAR(below.setup_general_m, 0.35 * 0.999 * slope_at_switch * q, 1e-12);
+  EXPECT_NEAR(above.setup_m, 0.35 * 1.001 * slope_at_switch * q, 1e-12);
+  EXPECT_NEAR(above.runup_general_m,
+              1.1 * (0.35 * 1.001 * slope_at_switch * q +
+                     0.5 * q * std::sqrt(0.563 * std::pow(1.001 * slope_at_switch, 2) + 0.004)),
+              1e-12);
 }
 
-TEST(Stockdon, SetupIsSlopeFreeInHorizontalTerms) {
+TEST(Stockdon, GeneralSetupIsSlopeFreeInHorizontalTerms) {
+  // H0 1.5 m, T 9 s: sqrt(H0 / L0) = 0.111, so xi0 >= 0.3 from tan(beta) 0.034 up.
   const double l0 = deep_water_wavelength_m(9.0);
-  for (double slope : {0.02, 0.05, 0.12})
+  for (double slope : {0.05, 0.12}) {
+    ASSERT_FALSE(stockdon_terms(1.5, l0, slope).dissipative);
     EXPECT_NEAR(stockdon_terms(1.5, l0, slope).setup_m / slope, setup_horizontal_m(1.5, l0), 1e-12);
+    EXPECT_EQ(setup_slope_sensitivity_level_m(1.5, l0, slope), 0.0);
+  }
+}
+
+TEST(Stockdon, DissipativeSetupSensitivityMatchesFiniteDifference) {
+  // On a dissipative beach the setup is a level: d(setup/beta)/d(beta) = -setup / beta^2.
+  const double l0 = deep_water_wavelength_m(9.0);
+  const double slope = 0.02, db = 1e-7;
+  ASSERT_TRUE(stockdon_terms(1.5, l0, slope).dissipative);
+  const double derivative = (stockdon_terms(1.5, l0, slope + db).setup_m / (slope + db) -
+                             stockdon_terms(1.5, l0, slope - db).setup_m / (slope - db)) /
+                            (2 * db);
+  EXPECT_NEAR(-derivative * slope * slope, setup_slope_sensitivity_level_m(1.5, l0, slope), 1e-6);
+  EXPECT_NEAR(setup_slope_sensitivity_level_m(1.5, l0, slope), 0.016 * std::sqrt(1.5 * l0), 1e-12);
 }
 
 TEST(Stockdon, SlopeSensitivityMatchesFiniteDifference) {

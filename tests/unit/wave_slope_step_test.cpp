@@ -58,8 +58,9 @@ std::unique_ptr<Chain> make_chain(bool data_has_runup, WaveCorrection correction
     const double tp = 9.0 + 3.0 * std::sin(kTwoPi * d / 61.0);
     const double l0 = kG * tp * tp / kTwoPi;
     const double q = std::sqrt(hs * l0);
-    const double setup = 0.35 * kTrueSlope * q;
     const double xi = kTrueSlope / std::sqrt(hs / l0);
+    // Stockdon et al. (2006): eq. 10, or eq. 16 on a dissipative beach.
+    const double setup = xi < 0.3 ? 0.016 * q : 0.35 * kTrueSlope * q;
     const double r2 = xi < 0.3 ? 0.043 * q : 1.1 * (setup + 0.5 * std::hypot(0.75 * kTrueSlope * q, 0.06 * q));
     const double truth = 200.0 + 1.5 * d / 365.25 + 10.0 * std::cos(kTwoPi * d / 365.25);
     const double raw = truth - (tide + (data_has_runup ? r2 : setup)) / kTrueSlope + noise(rng);
@@ -121,8 +122,9 @@ TEST(WaveSlopeStep, RunupTakesTheGridPathAndRecoversSlopeAndPositions) {
 }
 
 TEST(WaveSlopeStep, GridPathAgreesWithClosedFormForSetup) {
-  // The same setup correction through the grid + refine path of the searcher
-  // finds the closed form's minimum.
+  // The same setup correction through the grid + refine path of the searcher,
+  // with each image's regime decided at every candidate slope, finds the minimum
+  // the closed form reaches by classifying images at its estimate until the classes stand.
   const auto c = make_chain(false, WaveCorrection::setup);
   const SiteTable& table = c->table;
   const auto step = SlopeStep::make({{"bootstrap_count", 20}}, "/steps/slope");
@@ -135,7 +137,7 @@ TEST(WaveSlopeStep, GridPathAgreesWithClosedFormForSetup) {
   }
   spectral::CorrectedSeriesFn corrected = [&](double tan_beta, std::span<double> out) {
     for (std::size_t i = 0; i < x.size(); ++i)
-      out[i] = x[i] + w[i] / tan_beta + setup_horizontal_m(table.hs0_m[i], table.l0_m[i]);
+      out[i] = x[i] + (w[i] + stockdon_terms(table.hs0_m[i], table.l0_m[i], tan_beta).setup_m) / tan_beta;
   };
   auto options = slope_step.search_options(0.01, 0.2);
   options.seed = transect_seed(options.seed, "T01");

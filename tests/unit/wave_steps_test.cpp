@@ -43,10 +43,11 @@ struct Truth {
 Truth stockdon_truth(double hs, double tp, double slope) {
   const double l0 = kG * tp * tp / kTwoPi;
   const double q = std::sqrt(hs * l0);
-  const double setup = 0.35 * slope * q;
+  const double setup = 0.35 * slope * q;  // eq. 10
   const double xi = slope / std::sqrt(hs / l0);
   const double swash = q * std::sqrt(0.563 * slope * slope + 0.004);  // Stockdon et al. (2006) eq. 19 as printed
-  return {setup, xi < 0.3 ? 0.043 * q : 1.1 * (setup + swash / 2)};
+  // Dissipative (xi0 < 0.3): setup 0.016 q (eq. 16), R2% 0.043 q (eq. 18).
+  return {xi < 0.3 ? 0.016 * q : setup, xi < 0.3 ? 0.043 * q : 1.1 * (setup + swash / 2)};
 }
 
 struct Scenario {
@@ -140,8 +141,8 @@ TEST(WaveSteps, NoCorrectionLeavesTheSetupBias) {
   const SiteTable& t = s->table;
   double mean_bias = 0, mean_expected = 0;
   for (std::size_t i = 0; i < t.size(); ++i) {
-    const double l0 = kG * std::pow(tp_s(t.time_s[i]), 2) / kTwoPi;
-    const double expected_bias = -0.35 * std::sqrt(hs_m(t.time_s[i]) * l0);  // slope-free
+    // The setup left in: 0.35 sqrt(H0 L0) horizontally, 0.016 sqrt(H0 L0) / tan(beta) when dissipative.
+    const double expected_bias = -stockdon_truth(hs_m(t.time_s[i]), tp_s(t.time_s[i]), kSlope).setup_m / kSlope;
     EXPECT_NEAR(t.chainage_m[i] - s->truth_x[i], expected_bias, 1e-9);
     EXPECT_EQ(t.wave_level_m[i], 0.0);
     EXPECT_TRUE(known(t.setup_m[i]));  // filled whenever waves are given
@@ -234,10 +235,19 @@ TEST(WaveSteps, UncertaintyCarriesScatterAndRunupSlopeSensitivity) {
                            (2 * db);
     EXPECT_NEAR(t.sigma_slope_m[i], 0.005 * std::abs(d_shift), 1e-4 * std::max(1.0, t.sigma_slope_m[i]));
   }
-  // With `setup` the setup's horizontal term is slope-free: the tide alone sets the slope term.
+  // With `setup` the general setup's horizontal term is slope-free: the tide alone sets the
+  // slope term; a dissipative image's setup (0.016 q, a level) adds to it.
   run_steps(*s, WaveCorrection::setup);
-  for (std::size_t i = 0; i < t.size(); ++i)
-    EXPECT_NEAR(t.sigma_slope_m[i], 0.005 * std::abs(t.water_level_m[i] - kZref) / (kSlope * kSlope), 1e-9);
+  std::size_t dissipative = 0;
+  for (std::size_t i = 0; i < t.size(); ++i) {
+    const double hs = hs_m(t.time_s[i]), tp = tp_s(t.time_s[i]);
+    const bool level_term = kSlope / std::sqrt(hs / (kG * tp * tp / kTwoPi)) < 0.3;
+    dissipative += level_term ? 1 : 0;
+    const double c = level_term ? stockdon_truth(hs, tp, kSlope).setup_m : 0.0;
+    EXPECT_NEAR(t.sigma_slope_m[i], 0.005 * std::abs(t.water_level_m[i] - kZref + c) / (kSlope * kSlope), 1e-9);
+  }
+  EXPECT_GT(dissipative, 0u);
+  EXPECT_LT(dissipative, t.size());
 }
 
 TEST(WaveSteps, SigmaIsTheRootSumSquareOfItsTermsWaveTermIncluded) {
