@@ -9,6 +9,7 @@
 #include "corrections/engine/pipeline.h"
 #include "corrections/water_level/gauge_series.h"
 #include "demo_data/synthetic/synthetic_site.h"
+#include "tests/unit/synthetic_table.h"
 
 using namespace strandline;
 
@@ -17,14 +18,7 @@ TEST(DemoRecovery, TrueSlopesRecoverTruePositions) {
   params.waves_in_data = false;  // tide-only physics: the foundation's correction
   const synthetic::Site site = synthetic::generate_site(params);
 
-  SiteTableBuilder b;
-  for (std::size_t k = 0; k < site.points.size(); ++k) {
-    const auto& p = site.points[k];
-    const auto& img = site.images[p.image];
-    b.add(b.transect_index(site.transects[p.transect].id), b.image_index(img.id), b.sensor_index(img.sensor),
-          {static_cast<std::uint32_t>(k), p.time_s, p.chainage_raw_m, p.cloud_fraction, p.georef_rmse_m});
-  }
-  SiteTable table = std::move(b).build();
+  SiteTable table = synthetic_test::table_of(site);
   GaugeSeries gauge(site.gauge_times_s, site.gauge_levels_m, 0.1);
   const SensorTable sensors = SensorTable::defaults();
   RunInputs in;

@@ -19,6 +19,7 @@
 #include "corrections/engine/pipeline.h"
 #include "corrections/water_level/gauge_series.h"
 #include "demo_data/synthetic/synthetic_site.h"
+#include "tests/unit/synthetic_table.h"
 
 using namespace strandline;
 
@@ -68,14 +69,7 @@ synthetic::SiteParams pattern(bool five_day, std::uint64_t seed) {
 
 Recovery recover(const synthetic::SiteParams& params, SiteTable& table, const synthetic::Site& site,
                  GaugeOptions gauge_options = {}) {
-  SiteTableBuilder b;
-  for (std::size_t k = 0; k < site.points.size(); ++k) {
-    const auto& p = site.points[k];
-    const auto& img = site.images[p.image];
-    b.add(b.transect_index(site.transects[p.transect].id), b.image_index(img.id), b.sensor_index(img.sensor),
-          {static_cast<std::uint32_t>(k), p.time_s, p.chainage_raw_m, p.cloud_fraction, p.georef_rmse_m});
-  }
-  table = std::move(b).build();
+  table = synthetic_test::table_of(site);
   GaugeSeries gauge(site.gauge_times_s, site.gauge_levels_m, 0.1, gauge_options);
   const SensorTable sensors = SensorTable::defaults();
   RunInputs in;

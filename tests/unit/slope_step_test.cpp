@@ -13,6 +13,7 @@
 #include "corrections/water_level/gauge_series.h"
 #include "corrections/waves/wave_record.h"
 #include "demo_data/synthetic/synthetic_site.h"
+#include "tests/unit/synthetic_table.h"
 
 using namespace strandline;
 
@@ -35,14 +36,7 @@ Demo make_demo() {
   p.sensors = {{"landsat8", 2008, 2025, 16, 10.4, 8.0, 0}, {"landsat7", 2008, 2025, 16, 10.4, 9.0, 8}};
   Demo d;
   d.site = synthetic::generate_site(p);
-  SiteTableBuilder b;
-  for (std::size_t k = 0; k < d.site.points.size(); ++k) {
-    const auto& pt = d.site.points[k];
-    const auto& img = d.site.images[pt.image];
-    b.add(b.transect_index(d.site.transects[pt.transect].id), b.image_index(img.id), b.sensor_index(img.sensor),
-          {static_cast<std::uint32_t>(k), pt.time_s, pt.chainage_raw_m, pt.cloud_fraction, pt.georef_rmse_m});
-  }
-  d.table = std::move(b).build();
+  d.table = synthetic_test::table_of(d.site);
   d.gauge = std::make_unique<GaugeSeries>(d.site.gauge_times_s, d.site.gauge_levels_m, 0.1);
   d.inputs.water_levels = d.gauge.get();
   d.inputs.slopes.estimate = true;
@@ -121,14 +115,7 @@ TEST(SlopeStep, WaveTermEntersTheEstimate) {
   p.first_year = p.gauge_first_year = 2008;
   p.sensors = {{"landsat8", 2008, 2025, 16, 10.4, 8.0, 0}, {"landsat7", 2008, 2025, 16, 10.4, 9.0, 8}};
   const synthetic::Site site = synthetic::generate_site(p);
-  SiteTableBuilder b;
-  for (std::size_t k = 0; k < site.points.size(); ++k) {
-    const auto& pt = site.points[k];
-    const auto& img = site.images[pt.image];
-    b.add(b.transect_index(site.transects[pt.transect].id), b.image_index(img.id), b.sensor_index(img.sensor),
-          {static_cast<std::uint32_t>(k), pt.time_s, pt.chainage_raw_m, pt.cloud_fraction, pt.georef_rmse_m});
-  }
-  const SiteTable base = std::move(b).build();
+  const SiteTable base = synthetic_test::table_of(site);
   std::vector<WaveSample> samples;
   for (const auto& s : site.waves) samples.push_back({s.time_s, s.hs_m, s.tp_s, s.dir_deg, kUnknown});
   const WaveRecord waves(samples);
