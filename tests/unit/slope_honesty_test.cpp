@@ -19,6 +19,7 @@ using namespace strandline;
 namespace {
 
 struct Case {
+  synthetic::Site site;
   SiteTable table;
   std::unique_ptr<GaugeSeries> gauge;
   RunInputs inputs;
@@ -32,10 +33,10 @@ Case make_case() {
   p.waves = p.waves_in_data = p.storms = false;
   p.first_year = p.gauge_first_year = 2008;
   p.sensors = {{"landsat8", 2008, 2025, 16, 10.4, 8.0, 0}, {"landsat7", 2008, 2025, 16, 10.4, 9.0, 8}};
-  const synthetic::Site site = synthetic::generate_site(p);
   Case c;
-  c.table = synthetic_test::table_of(site);
-  c.gauge = std::make_unique<GaugeSeries>(site.gauge_times_s, site.gauge_levels_m, 0.1);
+  c.site = synthetic::generate_site(p);
+  c.table = synthetic_test::table_of(c.site);
+  c.gauge = std::make_unique<GaugeSeries>(c.site.gauge_times_s, c.site.gauge_levels_m, 0.1);
   c.inputs.water_levels = c.gauge.get();
   c.inputs.slopes.estimate = true;
   return c;
@@ -136,4 +137,31 @@ TEST(SlopeHonesty, ADefaultSlopeCarriesARealSigma) {
   stated.inputs.slopes.default_value = SlopeValue{0.1, 0.03};
   default_pipeline().run(stated.table, stated.inputs);
   EXPECT_DOUBLE_EQ(stated.table.transects[0].slope_sigma, 0.03);
+}
+
+TEST(SlopeHonesty, ADefaultSlopesSigmaCoversTheErrorItCauses) {
+  // The steep transect (true 0.3, beyond the 0.2 search range) falls back on a
+  // default of 0.1 with no stated sigma. Its positions are then off by
+  // (eta - z_ref)(1/0.1 - 1/0.3) (the correction's geometry, design notes
+  // section 2); the slope term of sigma_m, unknown and left out before, must be at
+  // least that large (rms over the corrected points).
+  Case c = make_case();
+  c.inputs.slopes.default_value = SlopeValue{0.1, kUnknown};
+  default_pipeline().run(c.table, c.inputs);
+  const TransectInfo& t = c.table.transects[2];
+  ASSERT_EQ(t.slope_source, SlopeSource::default_value);
+  double error2 = 0, sigma2 = 0;
+  std::size_t n = 0;
+  for (std::size_t i = t.begin; i < t.end; ++i) {
+    if (!known(c.table.chainage_m[i])) continue;
+    ASSERT_TRUE(known(c.table.sigma_slope_m[i])) << "row " << i;
+    error2 += std::pow((c.table.water_level_m[i] - t.z_ref_m) * (1 / 0.1 - 1 / 0.3), 2);
+    sigma2 += std::pow(c.table.sigma_slope_m[i], 2);
+    ++n;
+  }
+  ASSERT_GT(n, 100u);
+  const double rms_error = std::sqrt(error2 / double(n)), rms_sigma = std::sqrt(sigma2 / double(n));
+  std::printf("default slope 0.1 on a 0.3 beach: rms slope-induced error %.1f m, rms slope term %.1f m (%s)\n",
+              rms_error, rms_sigma, t.slope_details["default_sigma_basis"].get<std::string>().c_str());
+  EXPECT_GE(rms_sigma, rms_error);
 }
