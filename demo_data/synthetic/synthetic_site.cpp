@@ -17,15 +17,6 @@ constexpr double kEpoch2000_s = 946684800.0;  // 2000-01-01T00:00:00Z
 constexpr double kGravity = 9.80665;
 constexpr double kDegToRad = std::numbers::pi / 180.0;
 
-// Standard constituent speeds (deg/h) of the default tide; the default
-// amplitudes make a mixed, mainly semidiurnal tide of ~2 m spring range.
-const std::vector<ToneConstituent>& default_tide() {
-  static const std::vector<ToneConstituent> tide = {
-      {"M2", 28.9841042, 0.62, 40.0}, {"S2", 30.0000000, 0.22, 75.0}, {"N2", 28.4397295, 0.12, 20.0},
-      {"K2", 30.0821373, 0.06, 72.0}, {"K1", 15.0410686, 0.18, 200.0}, {"O1", 13.9430356, 0.13, 180.0},
-      {"P1", 14.9589314, 0.06, 198.0}, {"Sa", 0.0410686, 0.05, 250.0}};
-  return tide;
-}
 
 std::vector<SensorPlan> default_sensors() {
   return {
@@ -61,6 +52,16 @@ std::string image_date(TimeS t) {
 }
 
 }  // namespace
+
+// Standard constituent speeds (deg/h) of the default tide; the default
+// amplitudes make a mixed, mainly semidiurnal tide of ~2 m spring range.
+const std::vector<ToneConstituent>& default_tide() {
+  static const std::vector<ToneConstituent> tide = {
+      {"M2", 28.9841042, 0.62, 40.0}, {"S2", 30.0000000, 0.22, 75.0}, {"N2", 28.4397295, 0.12, 20.0},
+      {"K2", 30.0821373, 0.06, 72.0}, {"K1", 15.0410686, 0.18, 200.0}, {"O1", 13.9430356, 0.13, 180.0},
+      {"P1", 14.9589314, 0.06, 198.0}, {"Sa", 0.0410686, 0.05, 250.0}};
+  return tide;
+}
 
 std::string_view outlier_kind_name(OutlierKind k) {
   switch (k) {

@@ -42,6 +42,9 @@ struct ToneConstituent {
 enum class OutlierKind : std::uint8_t { none, spike, cloud_run, misregistration };
 std::string_view outlier_kind_name(OutlierKind k);
 
+// The default tide: standard speeds, a mixed, mainly semidiurnal tide of ~2 m spring range.
+const std::vector<ToneConstituent>& default_tide();
+
 struct TransectTruth {
   std::string id;
   double slope = 0.08;           // true tan(beta)
@@ -73,7 +76,7 @@ struct SiteParams {
   double first_year = 1999, last_year = 2025;
   double z_ref_m = 0.0;
   std::vector<SensorPlan> sensors;  // empty = a default mix (see defaults())
-  std::vector<ToneConstituent> tide;  // empty = a mixed semidiurnal default
+  std::vector<ToneConstituent> tide;  // empty = default_tide()
   // Replaces the tone sum when set (e.g. the harmonic predictor with nodal corrections).
   std::function<double(TimeS)> tide_function;
   double surge_sigma_m = 0.05;    // AR(1) residual in the water level

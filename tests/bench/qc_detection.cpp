@@ -45,6 +45,7 @@ int main(int argc, char** argv) {
   bool table = false;
   std::string layout_arg = "curved", geometry_arg = "on";
   double shift_m = synthetic::SiteParams::defaults().misregistration_m;
+  double tide_scale = 1.0;  // e.g. 3.5: a macro-tidal site (spring range ~7 m)
   nlohmann::json config = nlohmann::json::object();
   for (int a = 1; a < argc; ++a) {
     const std::string key = argv[a];
@@ -62,6 +63,7 @@ int main(int argc, char** argv) {
     else if (key == "--layout") layout_arg = value;
     else if (key == "--geometry") geometry_arg = value;
     else if (key == "--shift-m") shift_m = std::strtod(value.c_str(), nullptr);
+    else if (key == "--tide-scale") tide_scale = std::strtod(value.c_str(), nullptr);
     else if (key == "--config") {
       std::ifstream in(value);
       config = nlohmann::json::parse(in);
@@ -95,6 +97,8 @@ int main(int argc, char** argv) {
         params.seed = seed + s;
         params.azimuth_span_deg = layout.azimuth_span_deg;
         params.misregistration_m = shift_m;
+        params.tide = synthetic::default_tide();
+        for (auto& c : params.tide) c.amplitude_m *= tide_scale;
         const auto start = std::chrono::steady_clock::now();
         auto run = bench::run_generated_site(params, config, with_geometry);
         const double seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
