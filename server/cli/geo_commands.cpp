@@ -64,8 +64,8 @@ int run_intersect(const CommandArgs& argv) {
                  "azimuth and length attributes")
       .add_value("out", "FILE", "observation CSV (\"-\" for standard output)")
       .add_value("crossing", "RULE",
-                 "several crossings: most-seaward (default),\n"
-                 "most-landward, or flag-only (leave the pair out)");
+                 "several crossings: outermost (the most seaward; default),\n"
+                 "innermost (the most landward), or omit (leave the pair out)");
   add_transect_options(args);
   args.add_value("time-field", "N", "shoreline time attribute (default time)")
       .add_value("sensor-field", "N", "shoreline sensor attribute (default sensor)")
@@ -80,7 +80,7 @@ int run_intersect(const CommandArgs& argv) {
   geo::TransectReadOptions topt = transect_options(args);
   geo::IntersectOptions iopt;
   iopt.layer = args.get("shorelines-layer");
-  iopt.rule = geo::crossing_rule_from_name(args.get("crossing").value_or("most-seaward"));
+  iopt.rule = geo::crossing_rule_from_name(args.get("crossing").value_or("outermost"));
   auto& fields = iopt.fields;
   fields.time = args.get("time-field").value_or(fields.time);
   fields.sensor = args.get("sensor-field").value_or(fields.sensor);
@@ -106,7 +106,7 @@ int run_intersect(const CommandArgs& argv) {
             << ")\n"
             << "transects: " << transects.transects.size() << "; rows written: " << r.rows << "\n"
             << "transect-image pairs with several crossings: " << r.ambiguous_pairs;
-  if (r.left_out_ambiguous) std::cerr << " (" << r.left_out_ambiguous << " left out, --crossing flag-only)";
+  if (r.left_out_ambiguous) std::cerr << " (" << r.left_out_ambiguous << " left out, --crossing omit)";
   std::cerr << "\ntransect-image pairs not crossed: " << r.uncrossed_pairs << "\n"
             << "transects crossed by no image: " << r.never_crossed.size();
   for (std::size_t i = 0; i < r.never_crossed.size() && i < 20; ++i)
@@ -117,17 +117,17 @@ int run_intersect(const CommandArgs& argv) {
 }
 
 int run_transects(const CommandArgs& argv) {
-  Args args("strandline transects --baseline FILE --spacing M --length M --seaward left|right --out FILE [options]",
+  Args args("strandline transects --baseline FILE --spacing M --length M --sea-side left|right --out FILE [options]",
             "Generates shore-normal transects along a baseline polyline (one or more lines):\n"
             "one every --spacing metres of baseline from each line's first vertex, normal to\n"
-            "the baseline's direction averaged over --smoothing metres, pointing seaward.");
+            "the baseline's direction averaged over --direction-window metres, pointing seaward.");
   args.add_value("baseline", "FILE", "baseline lines (any OGR vector format)")
       .add_value("baseline-layer", "NAME", "layer of FILE when it has several")
       .add_value("spacing", "M", "metres between transects along the baseline")
       .add_value("length", "M", "transect length in metres")
-      .add_value("seaward", "SIDE", "the sea lies left or right walking along the baseline")
+      .add_value("sea-side", "SIDE", "the sea lies left or right walking along the baseline")
       .add_value("landward", "M", "start each transect M metres landward of the baseline (0)")
-      .add_value("smoothing", "M", "window for the baseline direction (default: spacing)")
+      .add_value("direction-window", "M", "window for the baseline direction (default: spacing)")
       .add_value("id-prefix", "TEXT", "transect ids TEXT0001, TEXT0002, ... (default T)")
       .add_value("crs", "CRS", "work CRS when the baseline is not projected")
       .add_value("out", "FILE", ".gpkg (work CRS) or .geojson (WGS 84 lon/lat)");
@@ -141,9 +141,9 @@ int run_transects(const CommandArgs& argv) {
   args.require("length");
   o.spacing_m = *args.number("spacing");
   o.length_m = *args.number("length");
-  o.seaward = geo::seaward_side_from_name(args.require("seaward"));
+  o.sea_side = geo::sea_side_from_name(args.require("sea-side"));
   o.landward_m = args.number_or("landward", 0.0);
-  o.smoothing_m = args.number_or("smoothing", kUnknown);
+  o.direction_window_m = args.number_or("direction-window", kUnknown);
   o.id_prefix = args.get("id-prefix").value_or(o.id_prefix);
   if (!geo::geo_format_for(out_path)) throw UsageError("--out " + out_path + ": use a .gpkg or .geojson file");
 
@@ -154,7 +154,7 @@ int run_transects(const CommandArgs& argv) {
   if (made.crossing_neighbours)
     std::cerr << "warning: " << made.crossing_neighbours
               << " pairs of neighbouring transects cross each other (baseline bends sharply for this length;"
-                 " increase --smoothing or --spacing, or shorten --length)\n";
+                 " increase --direction-window or --spacing, or shorten --length)\n";
   return kExitOk;
 }
 

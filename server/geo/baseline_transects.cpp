@@ -10,9 +10,9 @@
 
 namespace strandline::geo {
 
-SeawardSide seaward_side_from_name(const std::string& name) {
-  if (name == "left") return SeawardSide::left;
-  if (name == "right") return SeawardSide::right;
+SeaSide sea_side_from_name(const std::string& name) {
+  if (name == "left") return SeaSide::left;
+  if (name == "right") return SeaSide::right;
   throw ArgumentError("seaward side \"" + name + "\": expected left or right");
 }
 
@@ -44,8 +44,8 @@ BaselineTransects transects_from_baseline(const std::string& path, const Baselin
   if (!(options.length_m > 0)) throw ArgumentError("transect length must be positive (metres)");
   if (!(options.landward_m >= 0) || options.landward_m >= options.length_m)
     throw ArgumentError("landward part of a transect must be at least 0 and less than its length");
-  const double window_m = known(options.smoothing_m) ? options.smoothing_m : options.spacing_m;
-  if (!(window_m > 0)) throw ArgumentError("baseline smoothing window must be positive (metres)");
+  const double window_m = known(options.direction_window_m) ? options.direction_window_m : options.spacing_m;
+  if (!(window_m > 0)) throw ArgumentError("baseline direction window must be positive (metres)");
 
   DatasetPtr ds = open_vector(path, "baseline file");
   OGRLayer& layer = pick_layer(*ds, path, options.layer);
@@ -74,7 +74,7 @@ BaselineTransects transects_from_baseline(const std::string& path, const Baselin
   if (out.set.crs.definition != crs->definition)
     to_work.emplace(crs->definition, out.set.crs.definition, label + ": to the work CRS");
 
-  const double side = options.seaward == SeawardSide::left ? -90.0 : 90.0;
+  const double side = options.sea_side == SeaSide::left ? -90.0 : 90.0;
   const double h = window_m / 2.0;
   std::size_t count = 0;
   for (RawBaseline& b : raw) {

@@ -12,8 +12,8 @@
 
 namespace strandline::geo {
 
-enum class SeawardSide { left, right };  // sea on the left/right walking along the line
-SeawardSide seaward_side_from_name(const std::string& name);  // throws ArgumentError
+enum class SeaSide { left, right };  // sea on the left/right walking along the line
+SeaSide sea_side_from_name(const std::string& name);  // throws ArgumentError
 
 struct BaselineOptions {
   std::optional<std::string> layer;
@@ -21,8 +21,8 @@ struct BaselineOptions {
   double spacing_m = 50.0;
   double length_m = 400.0;
   double landward_m = 0.0;         // the origin lies this far landward of the baseline
-  double smoothing_m = kUnknown;   // baseline direction over this window; unknown: spacing
-  SeawardSide seaward = SeawardSide::left;
+  double direction_window_m = kUnknown;   // baseline direction over this window; unknown: spacing
+  SeaSide sea_side = SeaSide::left;
   std::string id_prefix = "T";
 };
 

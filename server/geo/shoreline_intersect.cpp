@@ -11,10 +11,10 @@
 namespace strandline::geo {
 
 CrossingRule crossing_rule_from_name(const std::string& name) {
-  if (name == "most-seaward") return CrossingRule::most_seaward;
-  if (name == "most-landward") return CrossingRule::most_landward;
-  if (name == "flag-only") return CrossingRule::flag_only;
-  throw ArgumentError("crossing rule \"" + name + "\": expected most-seaward, most-landward or flag-only");
+  if (name == "outermost") return CrossingRule::outermost;
+  if (name == "innermost") return CrossingRule::innermost;
+  if (name == "omit") return CrossingRule::omit;
+  throw ArgumentError("crossing rule \"" + name + "\": expected outermost, innermost or omit");
 }
 
 namespace {
@@ -177,12 +177,12 @@ IntersectResult intersect_shorelines(const std::string& path, const TransectSet&
       const int n = static_cast<int>(chainages.size());
       if (n > 1) {
         ++result.report.ambiguous_pairs;
-        if (options.rule == CrossingRule::flag_only) {
+        if (options.rule == CrossingRule::omit) {
           ++result.report.left_out_ambiguous;
           continue;
         }
       }
-      const double chosen = options.rule == CrossingRule::most_landward ? chainages.front() : chainages.back();
+      const double chosen = options.rule == CrossingRule::innermost ? chainages.front() : chainages.back();
       result.rows.push_back(
           {t.id, img->time_s, chosen, img->sensor, img->id, img->cloud_fraction, img->georef_rmse_m, n});
     }

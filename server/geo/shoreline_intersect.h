@@ -15,11 +15,11 @@
 namespace strandline::geo {
 
 enum class CrossingRule {
-  most_seaward,   // several crossings: keep the largest chainage
-  most_landward,  // keep the smallest
-  flag_only,      // keep none: the pair is left out and reported
+  outermost,  // several crossings: keep the largest chainage (the most seaward)
+  innermost,  // keep the smallest (the most landward)
+  omit,       // keep none: the pair is left out and reported
 };
-// "most-seaward", "most-landward", "flag-only"; throws ArgumentError otherwise.
+// "outermost", "innermost", "omit"; throws ArgumentError otherwise.
 CrossingRule crossing_rule_from_name(const std::string& name);
 
 struct ShorelineFields {
@@ -35,7 +35,7 @@ struct ShorelineFields {
 struct IntersectOptions {
   std::optional<std::string> layer;
   ShorelineFields fields;
-  CrossingRule rule = CrossingRule::most_seaward;
+  CrossingRule rule = CrossingRule::outermost;
   std::vector<std::string> drivers;  // GDAL drivers allowed to open the file; empty: any
 };
 
@@ -55,7 +55,7 @@ struct IntersectReport {
   std::size_t images = 0;
   std::size_t rows = 0;
   std::size_t ambiguous_pairs = 0;        // transect-image pairs with several crossings
-  std::size_t left_out_ambiguous = 0;     // of those, not written (flag-only)
+  std::size_t left_out_ambiguous = 0;     // of those, not written (omit)
   std::size_t uncrossed_pairs = 0;        // transect-image pairs without a crossing
   std::vector<std::string> never_crossed;  // transects no image crossed
   bool has_cloud_fraction = false;

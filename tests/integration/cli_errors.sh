@@ -195,6 +195,12 @@ printf 'time,level_m\n2019-03-01T00:00:00Z,0.1\n2019-03-01T02:00:00Z,0.5\n2019-0
   grep -q "coarse_gauge" "$tmp/coarse.csv"
 check coarse_gauge_is_reported $? "exit $got: $(cat "$tmp/coarse.err")"
 
+# The geometry options carry names of our own; the old ones are refused, naming what is expected.
+expect crossing_rule_renamed 2 'expected outermost, innermost or omit' -- \
+  intersect --shorelines "$tmp/none.geojson" --transects "$tmp/none.geojson" --crossing most-seaward --out "$tmp/x.csv"
+expect sea_side_renamed 2 '--seaward' -- \
+  transects --baseline "$tmp/none.geojson" --spacing 50 --length 400 --seaward left --out "$tmp/x.gpkg"
+
 # The demo generator has a real parser: --help prints help and writes nothing.
 gen="$build/demo_data/strandline-demo-gen"
 (cd "$tmp" && "$gen" --help >"$tmp/gen_help" 2>&1); code=$?

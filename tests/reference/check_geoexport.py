@@ -162,7 +162,7 @@ def main():
                                  "geometry": {"type": "LineString", "coordinates": [[431000, 5902000], [431600, 5902800]]}}]},
                   open(bpath, "w"))
         out = os.path.join(tmp, "made.gpkg")
-        run([exe, "transects", "--baseline", bpath, "--spacing", "50", "--length", "400", "--seaward", "right", "--out", out])
+        run([exe, "transects", "--baseline", bpath, "--spacing", "50", "--length", "400", "--sea-side", "right", "--out", out])
         ds = ogr.Open(out)
         lyr = ds.GetLayer(0)
         # baseline length 1000 m -> stations 0, 50, ..., 1000: 21 transects;

@@ -8,7 +8,7 @@ transect origin along its azimuth (positive seaward). Tolerance: 1 mm.
 Cases (all geometry invented):
   A  line transects in a projected CRS (EPSG:32631, GeoPackage) x polylines in
      geographic WGS 84 (GeoPackage), several polylines per image, a meander
-     crossing one transect three times (most-seaward, most-landward, flag-only).
+     crossing one transect three times (outermost, innermost, omit).
   B  the same polylines in another projected CRS (EPSG:2154, FlatGeobuf).
   C  point transects (azimuth_deg, length_m) in RFC 7946 GeoJSON lon/lat: the
      work CRS is the UTM zone of their centroid, computed here independently.
@@ -118,7 +118,7 @@ SHORE_FIELDS = [("time", ogr.OFTString), ("sensor", ogr.OFTString), ("image_id",
                 ("cloud_fraction", ogr.OFTReal), ("georef_rmse_m", ogr.OFTReal)]
 
 
-def reference(shore_path, epsg_shore, work_crs, transect_geoms, rule="most-seaward"):
+def reference(shore_path, epsg_shore, work_crs, transect_geoms, rule="outermost"):
     """Independent chainages: pyproj transform of the vertices into the work CRS,
     OGR intersection, dot product along the azimuth."""
     tr = Transformer.from_crs(CRS.from_user_input(epsg_shore), work_crs, always_xy=True)
@@ -162,9 +162,9 @@ def reference(shore_path, epsg_shore, work_crs, transect_geoms, rule="most-seawa
                 continue
             if len(ch_np) != len(ch_ogr) or max(abs(p - q) for p, q in zip(ch_np, ch_ogr)) > 1e-6:
                 failures.append("reference disagrees with itself on %s %s: %s vs %s" % (tid, img, ch_ogr, ch_np))
-            if rule == "flag-only" and len(ch_ogr) > 1:
+            if rule == "omit" and len(ch_ogr) > 1:
                 continue
-            out[(tid, img)] = (ch_ogr[0] if rule == "most-landward" else ch_ogr[-1], len(ch_ogr))
+            out[(tid, img)] = (ch_ogr[0] if rule == "innermost" else ch_ogr[-1], len(ch_ogr))
     return out
 
 
@@ -212,10 +212,10 @@ def main():
         work = CRS.from_epsg(32631)
 
         # A: geographic shorelines, projected transects; three crossing rules.
-        for rule in ["most-seaward", "most-landward", "flag-only"]:
+        for rule in ["outermost", "innermost", "omit"]:
             got, _ = run_intersect(exe, s4326, tA, ["--crossing", rule])
             compare("A geographic lines, %s" % rule, got, reference(s4326, 4326, work, transects, rule))
-            if rule == "most-seaward" and got.get(("T05", "IMG03"), (0, 0))[1] != 4:
+            if rule == "outermost" and got.get(("T05", "IMG03"), (0, 0))[1] != 4:
                 failures.append("A: IMG03 should cross T05 four times (its shoreline once, the meander three times)")
         got, report = run_intersect(exe, s4326, tA)
         first = next(iter(got.values()))[2] if got else {}

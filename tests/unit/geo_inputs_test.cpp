@@ -248,7 +248,7 @@ TEST_F(GeoInputs, UntransformableShorelineCrsRefused) {
 
 TEST_F(GeoInputs, CrossingsCountedAndChosen) {
   // A zig-zag crossing transect A (x = 500000, origin y = 5000000, azimuth 180)
-  // at chainages 100 and 300: most-seaward keeps 300, most-landward 100.
+  // at chainages 100 and 300: outermost keeps 300, innermost 100.
   const auto t = utm_transects();
   const auto s = geojson("s.geojson",
                          line("\"time\":\"2020-01-01T10:00:00Z\",\"sensor\":\"s1\",\"image_id\":\"i1\"",
@@ -261,9 +261,9 @@ TEST_F(GeoInputs, CrossingsCountedAndChosen) {
   EXPECT_EQ(r.rows[0].crossings, 2);
   EXPECT_NEAR(r.rows[0].chainage_m, 300.0, 1e-9);
   EXPECT_EQ(r.report.never_crossed, std::vector<std::string>{"B"});
-  o.rule = CrossingRule::most_landward;
+  o.rule = CrossingRule::innermost;
   EXPECT_NEAR(intersect_shorelines(s, t, o).rows.at(0).chainage_m, 100.0, 1e-9);
-  o.rule = CrossingRule::flag_only;
+  o.rule = CrossingRule::omit;
   auto flagged = intersect_shorelines(s, t, o);
   EXPECT_TRUE(flagged.rows.empty());
   EXPECT_EQ(flagged.report.left_out_ambiguous, 1u);
@@ -287,14 +287,14 @@ TEST_F(GeoInputs, LongPolylineCrossingsAllFound) {
   EXPECT_NEAR(r.rows[0].chainage_m, 10 + 1.5 * 198.5, 1e-9);
 }
 
-TEST_F(GeoInputs, BaselineTransectsAreNormalOnTheSeawardSide) {
+TEST_F(GeoInputs, BaselineTransectsAreNormalOnTheSeaSide) {
   // A straight baseline due east: the sea on the right means transects point
   // south (azimuth 180), one every 50 m including both ends.
   const auto p = geojson("b.geojson", line("", "[500000,5000000],[500200,5000000]"), "urn:ogc:def:crs:EPSG::32631");
   BaselineOptions o;
   o.spacing_m = 50;
   o.length_m = 400;
-  o.seaward = SeawardSide::right;
+  o.sea_side = SeaSide::right;
   auto made = transects_from_baseline(p, o);
   ASSERT_EQ(made.set.transects.size(), 5u);
   for (std::size_t i = 0; i < 5; ++i) {
@@ -304,7 +304,7 @@ TEST_F(GeoInputs, BaselineTransectsAreNormalOnTheSeawardSide) {
     EXPECT_NEAR(g.origin_y_m, 5000000.0, 1e-6);
   }
   EXPECT_EQ(made.set.transects[0].id, "T0001");
-  o.seaward = SeawardSide::left;
+  o.sea_side = SeaSide::left;
   EXPECT_NEAR(transects_from_baseline(p, o).set.transects[0].geometry.azimuth_deg, 0.0, 1e-9);
 }
 

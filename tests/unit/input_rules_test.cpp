@@ -252,7 +252,7 @@ TEST(InputRules, MessagesNameNoCliOption) {
   // The geo library refuses bad arguments as input errors (exit 2 / 4xx), not CLI usage errors.
   EXPECT_THROW(geo::crossing_rule_from_name("nearest"), InputError);
   try {
-    geo::seaward_side_from_name("up");
+    geo::sea_side_from_name("up");
   } catch (const InputError& e) {
     EXPECT_EQ(std::string(e.what()).find("--"), std::string::npos) << e.what();
   }
