@@ -35,6 +35,8 @@ const std::vector<FlagInfo>& flag_table() {
       {Flag::sparse_period, "sparse_period", S::warn, "too few accepted points in the surrounding period"},
       {Flag::storm_response, "storm_response", S::info,
        "landward jump coinciding with high waves and persisting: storm response, kept as real change"},
+      {Flag::sensor_offset_applied, "sensor_offset_applied", S::info,
+       "position shifted by the offset of its sensor family (sensor_offsets step)"},
       {Flag::sigma_sensor_unknown, "sigma_sensor_unknown", S::warn,
        "sensor class uncertainty unknown: sigma_m omits it"},
       {Flag::sigma_water_level_unknown, "sigma_water_level_unknown", S::warn,
@@ -43,6 +45,8 @@ const std::vector<FlagInfo>& flag_table() {
        "slope uncertainty unknown: sigma_m omits the slope term"},
       {Flag::sigma_wave_unknown, "sigma_wave_unknown", S::warn,
        "wave-term uncertainty unknown: sigma_m omits it"},
+      {Flag::sigma_sensor_offset_unknown, "sigma_sensor_offset_unknown", S::warn,
+       "uncertainty of the applied sensor offset unknown: sigma_m omits it"},
   };
   return table;
 }
