@@ -147,6 +147,7 @@ TEST(SensorOffsets, NoOffsetIsRarelySignificant) {
 TEST(SensorOffsets, CorrectedTrendIntervalCoversTheTruth) {
   const Pipeline pipeline = configured_pipeline({{"threads", 1}});
   int covered = 0, covered_stat = 0;
+  double mean_bias = 0;
   for (unsigned seed = 1; seed <= 40; ++seed) {
     OffsetSite site = make_offset_site(seed, 10, 15.0);
     OffsetInputs in;
@@ -157,12 +158,37 @@ TEST(SensorOffsets, CorrectedTrendIntervalCoversTheTruth) {
     EXPECT_GT(s.trend->sensor_offset_term->offset_term_m_per_yr, 0.0);
     covered += covers(i.low, i.high, site.rate_m_per_yr[0]);
     covered_stat += covers(s.trend->ci95_m_per_yr->low, s.trend->ci95_m_per_yr->high, site.rate_m_per_yr[0]);
+    mean_bias += (s.trend->rate_m_per_yr - site.rate_m_per_yr[0]) / 40.0;
     ASSERT_EQ(s.sensor_offsets.size(), 1u);
     EXPECT_TRUE(s.sensor_offsets[0].corrected);
   }
-  std::printf("corrected trend: interval with the offset term covers the truth in %d/40 (statistical alone %d/40)\n",
-              covered, covered_stat);
+  std::printf("corrected trend: interval with the offset term covers the truth in %d/40 (statistical alone %d/40), "
+              "mean rate bias %+.3f m/yr\n", covered, covered_stat, mean_bias);
   EXPECT_GE(covered, 36);
+}
+
+TEST(SensorOffsets, UncorrectedOffsetBendsTheTrendAndIsCautioned) {
+  // The same sites with `none`: what the correction is for (and a check that the
+  // generated offset matters at all).
+  const Pipeline pipeline = configured_pipeline({{"threads", 1}});
+  int covered = 0, cautioned = 0;
+  double mean_bias = 0;
+  for (unsigned seed = 1; seed <= 40; ++seed) {
+    OffsetSite site = make_offset_site(seed, 10, 15.0);
+    OffsetInputs in;
+    in.inputs.sensor_offset_mode = SensorOffsetMode::none;
+    pipeline.run(site.table, in.inputs);
+    const TransectSummary s = transect_summary(site.table, 0, in.inputs, SummaryOptions{});
+    covered += covers(s.trend->ci95_m_per_yr->low, s.trend->ci95_m_per_yr->high, site.rate_m_per_yr[0]);
+    mean_bias += (s.trend->rate_m_per_yr - site.rate_m_per_yr[0]) / 40.0;
+    bool c = false;
+    for (const auto& text : s.cautions) c |= text.find("was not corrected") != std::string::npos;
+    cautioned += c;
+  }
+  std::printf("uncorrected (none): trend interval covers the truth in %d/40, mean rate bias %+.2f m/yr, "
+              "cautioned in %d/40\n", covered, mean_bias, cautioned);
+  EXPECT_LE(covered, 4);
+  EXPECT_EQ(cautioned, 40);
 }
 
 TEST(SensorOffsets, EstimateModeShiftsTheFamilyAndAddsItsSigma) {
