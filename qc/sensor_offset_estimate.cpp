@@ -17,10 +17,19 @@ std::vector<std::string> sensor_families(const SiteTable& table, const RunInputs
   return out;
 }
 
+std::vector<double> sensor_sigmas_m(const SiteTable& table, const RunInputs& inputs) {
+  std::vector<double> out(table.sensor_names.size(), 1.0);
+  if (!inputs.sensors) return out;
+  for (std::size_t s = 0; s < out.size(); ++s)
+    if (auto c = inputs.sensors->lookup(table.sensor_names[s])) out[s] = c->sigma_m;
+  return out;
+}
+
 std::vector<OffsetBin> transect_offset_bins(const SiteTable& table, std::size_t transect,
                                             const std::vector<double>& position_m, const std::vector<char>& usable,
                                             const std::vector<std::string>& families, const std::string& family,
-                                            const std::string& reference, double bin_days, const RunInputs& inputs) {
+                                            const std::string& reference, double bin_days,
+                                            const std::vector<double>& sigma_by_sensor_m) {
   struct Side {
     std::vector<double> x;
     double var_sum = 0;  // sum of sigma^2 (for the mean variance)
@@ -33,11 +42,9 @@ std::vector<OffsetBin> transect_offset_bins(const SiteTable& table, std::size_t 
     const std::string& f = families[table.sensor[i]];
     const bool is_family = f == family, is_reference = f == reference;
     if (!is_family && !is_reference) continue;
-    double sigma = 1.0;  // equal weights when the table gives no sigma
-    if (inputs.sensors)
-      if (auto c = inputs.sensors->lookup(table.sensor_names[table.sensor[i]])) sigma = c->sigma_m;
-    auto& side = is_family ? bins[static_cast<long long>(std::floor(table.time_s[i] / bin_s))].first
-                           : bins[static_cast<long long>(std::floor(table.time_s[i] / bin_s))].second;
+    const double sigma = sigma_by_sensor_m[table.sensor[i]];
+    auto& both = bins[static_cast<long long>(std::floor(table.time_s[i] / bin_s))];
+    auto& side = is_family ? both.first : both.second;
     side.x.push_back(position_m[i]);
     side.var_sum += sigma * sigma;
   }

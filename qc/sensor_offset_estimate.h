@@ -35,13 +35,16 @@ struct OffsetBin {
 
 // Family name per sensor index of the table (empty: sensor not in the table).
 std::vector<std::string> sensor_families(const SiteTable& table, const RunInputs& inputs);
+// The sensor table's sigma per sensor index (1 where the table gives none: equal weights).
+std::vector<double> sensor_sigmas_m(const SiteTable& table, const RunInputs& inputs);
 
 // Bins of one transect where both families have points; `usable` marks the rows
 // taking part (per table row), `position_m` their positions. In bin order.
 std::vector<OffsetBin> transect_offset_bins(const SiteTable& table, std::size_t transect,
                                             const std::vector<double>& position_m, const std::vector<char>& usable,
                                             const std::vector<std::string>& families, const std::string& family,
-                                            const std::string& reference, double bin_days, const RunInputs& inputs);
+                                            const std::string& reference, double bin_days,
+                                            const std::vector<double>& sigma_by_sensor_m);
 
 // Per bin the weighted mean of the transects' differences (weights add up).
 std::vector<OffsetBin> pool_offset_bins(const std::vector<std::vector<OffsetBin>>& per_transect);

@@ -48,6 +48,7 @@ void SensorOffsetStep::process(SiteTable& table, const RunInputs& inputs, StepLo
   site.mode = inputs.sensor_offset_mode;
   log.note("mode", std::string(sensor_offset_mode_name(site.mode)));
   const std::vector<std::string> families = sensor_families(table, inputs);
+  const std::vector<double> sensor_sigma_m = sensor_sigmas_m(table, inputs);
 
   // Points taking part: corrected and not rejected by the input checks.
   std::vector<char> usable(table.size(), 0);
@@ -87,7 +88,7 @@ void SensorOffsetStep::process(SiteTable& table, const RunInputs& inputs, StepLo
       std::vector<std::vector<OffsetBin>> per_transect(table.transects.size());
       for (std::size_t k = 0; k < table.transects.size(); ++k) {
         per_transect[k] = transect_offset_bins(table, k, table.chainage_m, usable, families, family, reference,
-                                               p_.bin_days, inputs);
+                                               p_.bin_days, sensor_sigma_m);
         if (!per_transect[k].empty())
           table.transects[k].sensor_offsets.push_back(
               estimate_family_offset(per_transect[k], family, reference, std::size_t(p_.min_bins)));
