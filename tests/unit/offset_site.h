@@ -5,7 +5,9 @@
 // of images lost to cloud; every position scattered by its sensor's stated
 // sigma (built-in table: Landsat 12 m, Sentinel-2 10 m) and the Sentinel-2
 // family shifted seaward by `sentinel_offset_m`. Water level = z_ref = 0, so
-// the correction is nil and the corrected position is the raw one.
+// the correction is nil and the corrected position is the raw one. With
+// `image_sigma_m` every image also shifts all its transects by one common error
+// (geolocation), which transects cannot average away.
 #pragma once
 
 #include <cmath>
@@ -35,7 +37,8 @@ inline constexpr double kStartS = 915148800.0;  // 1999-01-01T00:00:00Z
 inline double years_at(double t_s) { return (t_s - kStartS) / kSecondsPerJulianYear; }
 
 inline OffsetSite make_offset_site(unsigned seed, std::size_t n_transects, double sentinel_offset_m,
-                                   double landsat_sigma_m = 12.0, double sentinel_sigma_m = 10.0) {
+                                   double landsat_sigma_m = 12.0, double sentinel_sigma_m = 10.0,
+                                   double image_sigma_m = 0.0) {
   std::mt19937_64 rng(seed);
   std::normal_distribution<double> normal(0.0, 1.0);
   std::uniform_real_distribution<double> uniform(0.0, 1.0);
@@ -64,9 +67,10 @@ inline OffsetSite make_offset_site(unsigned seed, std::size_t n_transects, doubl
     const Image& im = images[m];
     const bool sentinel = im.sensor.rfind("sentinel2", 0) == 0;
     const double y = years_at(im.t_s);
+    const double image_shift = image_sigma_m > 0 ? image_sigma_m * normal(rng) : 0.0;
     for (std::size_t k = 0; k < n_transects; ++k) {
       const double truth = 200.0 + site.rate_m_per_yr[k] * (y - 12.5) + 4.0 * std::cos(2 * std::numbers::pi * y);
-      const double x = truth + (sentinel ? sentinel_offset_m + sentinel_sigma_m * normal(rng)
+      const double x = truth + image_shift + (sentinel ? sentinel_offset_m + sentinel_sigma_m * normal(rng)
                                          : landsat_sigma_m * normal(rng));
       b.add(b.transect_index(ids[k]), b.image_index("img" + std::to_string(m)), b.sensor_index(im.sensor),
             {row++, im.t_s, x});
