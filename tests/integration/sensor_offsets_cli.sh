@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # `strandline correct --sensor-offsets estimate|none|FILE` on the inputs of golden
 # case a: a FILE's offset_m is subtracted from that sensor's positions (flagged,
-# its sigma in sigma_m, recorded in the summary and the configuration), `none`
+# written as sensor_offset_m, its sigma as sigma_sensor_offset_m and in sigma_m,
+# recorded in the summary and the configuration), `none`
 # shifts nothing, and a bad FILE row, an unknown mode or "given" without any
 # offset_m stop the run with exit 2 and a message naming the file, line and field.
 set -uo pipefail
@@ -42,11 +43,13 @@ for a, b in zip(none, given):
         assert abs(float(b["chainage_m"]) - (float(a["chainage_m"]) - 5.0)) < 2e-3, (a, b)
         assert abs(float(b["correction_m"]) - (float(a["correction_m"]) - 5.0)) < 2e-3
         assert "sensor_offset_applied" in b["flags"]
+        assert b["sensor_offset_m"] == "5.000" and b["sigma_sensor_offset_m"] == "0.50", b
         # sigma_m written with 2 decimals: sqrt(a^2 + 0.5^2) within rounding.
         assert abs(float(b["sigma_m"]) - math.hypot(float(a["sigma_m"]), 0.5)) < 0.011, (a["sigma_m"], b["sigma_m"])
         checked += 1
     else:
         assert a["chainage_m"] == b["chainage_m"], (a, b)
+        assert b["sensor_offset_m"] == "" and b["sigma_sensor_offset_m"] == "", b
 assert checked > 10, checked
 s = json.load(open(f"{w}/file.json"))
 assert s["sensor_offsets"]["mode"] == "given"

@@ -8,6 +8,7 @@
 #include <cstdio>
 #include <fstream>
 
+#include "corrections/core/cleaned_row.h"
 #include "corrections/core/errors.h"
 #include "qc/sensor_offset_estimate.h"
 #include "qc/summary.h"
@@ -236,10 +237,15 @@ TEST(SensorOffsets, EstimateModeShiftsTheFamilyAndAddsItsSigma) {
       ASSERT_TRUE(has_flag(t.flags[i], Flag::sensor_offset_applied));
       // sigma_m: root-sum-square of the sensor, water-level and offset terms (slope sigma unknown).
       ASSERT_NEAR(t.sigma_m[i], std::sqrt(10.0 * 10.0 + 0.5 * 0.5 + f->se_m * f->se_m), 1e-9);
+      const CleanedRow row = cleaned_row(t, i);  // the output columns of the shift and its term
+      ASSERT_EQ(row.sensor_offset_m, f->offset_m);
+      ASSERT_EQ(row.sigma_sensor_offset_m, f->se_m);
     } else {
       ASSERT_DOUBLE_EQ(t.chainage_m[i], t.chainage_raw_m[i]);
       ASSERT_FALSE(has_flag(t.flags[i], Flag::sensor_offset_applied));
       ASSERT_NEAR(t.sigma_m[i], std::hypot(12.0, 0.5), 1e-9);
+      ASSERT_TRUE(std::isnan(cleaned_row(t, i).sensor_offset_m));
+      ASSERT_TRUE(std::isnan(cleaned_row(t, i).sigma_sensor_offset_m));
     }
   }
   const TransectSummary s = transect_summary(t, 0, in.inputs, SummaryOptions{});
