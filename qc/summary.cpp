@@ -48,12 +48,15 @@ void add_offset_parts(const SiteTable& table, std::size_t transect, const RunInp
   }
 }
 
-}  // namespace
-
-std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, const RunInputs& inputs) {
-  // Differences of consecutive accepted points of one sensor on one transect.
+// The report over transects [first, last): differences of consecutive accepted
+// points of one sensor on one transect, pooled; sensors without a point left out.
+std::vector<SensorNoise> noise_over(const SiteTable& table, std::size_t first, std::size_t last_transect,
+                                    const RunInputs& inputs) {
   std::vector<std::vector<double>> by_sensor(table.sensor_names.size());
-  for (const TransectInfo& t : table.transects) {
+  std::vector<char> present(table.sensor_names.size(), 0);
+  for (std::size_t k = first; k < last_transect; ++k) {
+    const TransectInfo& t = table.transects[k];
+    for (std::size_t i = t.begin; i < t.end; ++i) present[table.sensor[i]] = 1;
     std::vector<double> last(table.sensor_names.size(), kUnknown);
     for (std::size_t i = t.begin; i < t.end; ++i) {
       if (!table.accepted(i) || !known(table.chainage_m[i])) continue;
@@ -64,6 +67,7 @@ std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, const RunIn
   }
   std::vector<SensorNoise> out;
   for (std::size_t s = 0; s < table.sensor_names.size(); ++s) {
+    if (!present[s]) continue;
     SensorNoise n;
     n.sensor = table.sensor_names[s];
     if (inputs.sensors)
@@ -82,6 +86,16 @@ std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, const RunIn
   }
   std::sort(out.begin(), out.end(), [](const SensorNoise& a, const SensorNoise& b) { return a.sensor < b.sensor; });
   return out;
+}
+
+}  // namespace
+
+std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, const RunInputs& inputs) {
+  return noise_over(table, 0, table.transects.size(), inputs);
+}
+
+std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, std::size_t transect, const RunInputs& inputs) {
+  return noise_over(table, transect, transect + 1, inputs);
 }
 
 TransectSummary transect_summary(const SiteTable& table, std::size_t transect, const RunInputs& inputs,
@@ -118,6 +132,7 @@ TransectSummary transect_summary(const SiteTable& table, std::size_t transect, c
   s.trend = std::move(trend.trend);
   s.seasonal = std::move(trend.seasonal);
   add_offset_parts(table, transect, inputs, s);
+  s.sensor_noise = sensor_noise_report(table, transect, inputs);
   s.slope_details = t.slope_details;
   return s;
 }

@@ -67,6 +67,7 @@ struct TransectSummary {
   std::optional<TrendSummary> trend;
   std::optional<SeasonalSummary> seasonal;
   std::vector<SensorOffsetReport> sensor_offsets;  // this transect's own estimates
+  std::vector<SensorNoise> sensor_noise;           // from this transect's points (sensors it holds)
   std::vector<std::string> cautions;
   nlohmann::json slope_details;  // the slope step's record, as it stored it (null: none)
 };
@@ -88,8 +89,10 @@ TransectSummary transect_summary(const SiteTable& table, std::size_t transect, c
 // slope-free wave term, exact for `none` and `setup`).
 TransectSummary transect_summary(const SiteTable& table, std::size_t transect, const SummaryOptions& options);
 
-// The noise report of every sensor present in `table`.
+// The noise report of every sensor present in `table` (pooled over its transects),
+// or of the sensors of one transect.
 std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, const RunInputs& inputs);
+std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, std::size_t transect, const RunInputs& inputs);
 
 SiteSummary site_summary(const SiteTable& table, const RunInputs& inputs, const SummaryOptions& options);
 

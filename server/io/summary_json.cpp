@@ -136,6 +136,7 @@ json transect_summary_json(const TransectSummary& s) {
       {"trend", s.trend ? trend_json(*s.trend) : json(nullptr)},
       {"seasonal", s.seasonal ? seasonal_json(*s.seasonal) : json(nullptr)},
       {"sensor_offsets", offsets_json(s.sensor_offsets)},
+      {"sensor_noise", noise_json(s.sensor_noise)},
       {"cautions", s.cautions},
   };
   if (!s.slope_details.is_null()) j["slope_details"] = s.slope_details;

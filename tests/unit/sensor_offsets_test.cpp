@@ -333,6 +333,10 @@ TEST(SensorNoiseReport, ScaledMadOfConsecutiveDifferences) {
   EXPECT_EQ(report[0].family, "landsat");
   EXPECT_EQ(report[1].sensor, "sentinel2a");
   EXPECT_EQ(report[1].measured_sigma_m, 0.0);  // steps of exactly 1 m: no scatter
+  const auto one = sensor_noise_report(t, 0, in.inputs);  // the transect's own report: the same here
+  ASSERT_EQ(one.size(), 2u);
+  EXPECT_EQ(one[0].measured_sigma_m, report[0].measured_sigma_m);
+  EXPECT_EQ(one[0].n, report[0].n);
 }
 
 TEST(SensorNoiseReport, MeasuredScatterMatchesTheGeneratedSigma) {

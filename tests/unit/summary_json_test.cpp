@@ -68,6 +68,8 @@ TEST(SummaryJson, TransectWithTooFewPointsHasEveryKeyInItsNullForm) {
     "trend": null,
     "seasonal": null,
     "sensor_offsets": [],
+    "sensor_noise": [{"sensor": "landsat8", "class": null, "family": null, "stated_sigma_m": null,
+                      "measured_sigma_m": null, "n": 1}],
     "cautions": ["more than 20% of the corrected points were rejected",
                  "fewer than 3 accepted points in the trend window: no trend",
                  "fewer than 8 points or less than a year: no seasonal fit"]
@@ -148,6 +150,7 @@ TEST(SummaryJson, FullTransectWritesEveryTrendAndSeasonalKey) {
   f.n_points = 400;
   f.n_reference_points = 250;
   s.sensor_offsets = {{f, true}};
+  s.sensor_noise = {{"sentinel2a", "moderate_resolution", "sentinel2", 10.0, 7.25, 120}};
   s.seasonal = SeasonalSummary{4.5, 0.5, 30.0, 30.4375};
   s.cautions = {"a caution"};
   s.slope_details = {{"verdict", "identifiable"}, {"ci95", {0.1, 0.15}}};
@@ -190,6 +193,8 @@ TEST(SummaryJson, FullTransectWritesEveryTrendAndSeasonalKey) {
     "sensor_offsets": [{"family": "sentinel2", "reference_family": "landsat", "offset_m": 15.5, "se_m": 1.25,
                         "dof": 40.5, "ci95_m": [13.0, 18.0], "significant": true, "corrected": true,
                         "n_bins": 90, "n_points": 400, "n_reference_points": 250}],
+    "sensor_noise": [{"sensor": "sentinel2a", "class": "moderate_resolution", "family": "sentinel2",
+                      "stated_sigma_m": 10.0, "measured_sigma_m": 7.25, "n": 120}],
     "cautions": ["a caution"],
     "slope_details": {"verdict": "identifiable", "ci95": [0.1, 0.15]}
   })json");
