@@ -24,6 +24,29 @@ struct SummaryOptions {
   TimeS trend_to_s = kUnknown;
 };
 
+// One family's offset on a transect or across the site, and whether the run
+// shifted that family's positions (sensor_offsets step).
+struct SensorOffsetReport {
+  FamilyOffset estimate;
+  bool corrected = false;
+};
+
+// A sensor's measured scatter beside its stated sigma, from the differences d
+// between consecutive accepted points of that sensor on a transect (pooled over
+// the run's transects): 1.4826 * MAD(d) / sqrt(2) (a difference of two
+// independent errors has twice their variance; real change between neighbouring
+// images of one sensor is small next to the noise). Residuals about a running
+// median were tried and read 25% low for a sparse sensor (the median of a few
+// points follows each of them).
+struct SensorNoise {
+  std::string sensor;
+  std::string class_name;
+  std::string family;
+  double stated_sigma_m = kUnknown;    // the sensor table's
+  double measured_sigma_m = kUnknown;  // unknown with fewer than 2 differences
+  std::size_t n = 0;                   // differences used
+};
+
 struct TransectSummary {
   std::string transect_id;
   double slope = kUnknown;
@@ -43,6 +66,8 @@ struct TransectSummary {
   TrendWindow trend_window;
   std::optional<TrendSummary> trend;
   std::optional<SeasonalSummary> seasonal;
+  std::vector<SensorOffsetReport> sensor_offsets;  // this transect's own estimates
+  std::vector<SensorNoise> sensor_noise;           // from this transect's points (sensors it holds)
   std::vector<std::string> cautions;
   nlohmann::json slope_details;  // the slope step's record, as it stored it (null: none)
 };
@@ -52,6 +77,9 @@ struct SiteSummary {
   double reference_elevation_m = 0.0;
   std::optional<WaveCorrection> wave_correction;  // none: the run had no wave record
   std::vector<TransectSummary> transects;
+  std::optional<SiteSensorOffsets> sensor_offsets;  // none: the step did not run
+  std::vector<SensorOffsetReport> site_sensor_offsets;  // estimates pooled over the run's transects
+  std::vector<SensorNoise> sensor_noise;            // per sensor present in the run, by name
   std::vector<std::string> cautions;  // the standard cautions of every output
 };
 
@@ -60,6 +88,11 @@ TransectSummary transect_summary(const SiteTable& table, std::size_t transect, c
 // The same without the run's inputs (the slope-bound re-evaluation then assumes a
 // slope-free wave term, exact for `none` and `setup`).
 TransectSummary transect_summary(const SiteTable& table, std::size_t transect, const SummaryOptions& options);
+
+// The noise report of every sensor present in `table` (pooled over its transects),
+// or of the sensors of one transect.
+std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, const RunInputs& inputs);
+std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, std::size_t transect, const RunInputs& inputs);
 
 SiteSummary site_summary(const SiteTable& table, const RunInputs& inputs, const SummaryOptions& options);
 

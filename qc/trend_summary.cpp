@@ -2,9 +2,12 @@
 
 #include <algorithm>
 #include <cmath>
+#include <map>
+#include <string>
 
 #include "corrections/waves/stockdon.h"
 #include "qc/linear_trend.h"
+#include "qc/sensor_offset_estimate.h"
 #include "qc/seasonal_fit.h"
 
 namespace strandline {
@@ -12,6 +15,53 @@ namespace strandline {
 namespace {
 constexpr double kEpoch2000_s = 946684800.0;
 double years_since_2000(TimeS t) { return 2000.0 + (t - kEpoch2000_s) / kSecondsPerJulianYear; }
+
+// 95% half-width of the offset applied to a family: the site estimate's interval
+// in estimate mode, 1.96 sigma of a given offset (NaN when unknown).
+double offset_half_width_m(const SiteTable& table, const std::string& family, double sigma_m) {
+  if (table.sensor_offsets.mode == SensorOffsetMode::estimate)
+    for (const FamilyOffset& f : table.sensor_offsets.estimates)
+      if (f.family == family && f.significant()) return f.ci95_high_m - f.offset_m;
+  return 1.959963984540054 * sigma_m;  // Phi^-1(0.975)
+}
+
+void add_offset_term(const SiteTable& table, const RunInputs& inputs, const std::vector<std::size_t>& rows,
+                     const std::vector<TrendSample>& samples, const LinearTrend& trend, TrendSummary& s,
+                     std::vector<std::string>& cautions) {
+  const auto families = sensor_families(table, inputs);
+  // Each shifted point moves by its own offset's half-width, a family at a time.
+  std::vector<double> half(rows.size(), 0.0);
+  std::map<std::string, bool> shifted;  // family -> every half-width known
+  for (std::size_t k = 0; k < rows.size(); ++k) {
+    const std::size_t i = rows[k];
+    if (!known(table.sensor_offset_m[i])) continue;
+    const std::string& family = families[table.sensor[i]];
+    half[k] = offset_half_width_m(table, family, table.sigma_sensor_offset_m[i]);
+    auto [it, inserted] = shifted.emplace(family, true);
+    it->second = it->second && known(half[k]);
+  }
+  if (shifted.empty()) return;
+  TrendOffsetTerm& term = s.sensor_offset_term.emplace();
+  double sum2 = 0;
+  for (const auto& [family, all_known] : shifted) {
+    if (!all_known) {
+      cautions.push_back("a sensor offset was applied without its uncertainty: the trend interval omits it");
+      return;
+    }
+    std::vector<TrendSample> moved = samples;
+    for (std::size_t k = 0; k < rows.size(); ++k)
+      if (known(table.sensor_offset_m[rows[k]]) && families[table.sensor[rows[k]]] == family) moved[k].value_m += half[k];
+    const double d = fit_linear_trend(moved, true).rate_m_per_yr - trend.rate_m_per_yr;
+    sum2 += d * d;
+  }
+  term.offset_term_m_per_yr = std::sqrt(sum2);
+  if (trend.ci_valid) {
+    const double slope_term =
+        s.slope_term && known(s.slope_term->slope_term_m_per_yr) ? s.slope_term->slope_term_m_per_yr : 0.0;
+    const double half = std::sqrt(std::pow(trend.ci95_high - trend.rate_m_per_yr, 2) + slope_term * slope_term + sum2);
+    term.ci95_with_sensor_offsets_m_per_yr = Interval{trend.rate_m_per_yr - half, trend.rate_m_per_yr + half};
+  }
+}
 }  // namespace
 
 double chainage_at_slope(const SiteTable& table, std::size_t i, double z_ref_m, double used_slope, double slope,
@@ -37,7 +87,8 @@ TrendPart summarise_trend(const SiteTable& table, std::size_t transect, const Ru
     if (known(from_s) && table.time_s[i] < from_s) continue;
     if (known(to_s) && table.time_s[i] > to_s) continue;
     const double slope_term = known(table.sigma_slope_m[i]) ? table.sigma_slope_m[i] : 0.0;
-    const double var = table.sigma_m[i] * table.sigma_m[i] - slope_term * slope_term;
+    const double offset_term = known(table.sigma_sensor_offset_m[i]) ? table.sigma_sensor_offset_m[i] : 0.0;
+    const double var = table.sigma_m[i] * table.sigma_m[i] - slope_term * slope_term - offset_term * offset_term;
     const double sigma = std::sqrt(std::max(var, 1e-4 * table.sigma_m[i] * table.sigma_m[i]));
     rows.push_back(i);
     samples.push_back({years_since_2000(table.time_s[i]), table.chainage_m[i], sigma});
@@ -82,6 +133,7 @@ TrendPart summarise_trend(const SiteTable& table, std::size_t transect, const Ru
     } else {
       cautions.push_back("slope interval unknown: the trend interval omits the slope term");
     }
+    add_offset_term(table, inputs, rows, samples, trend, s, cautions);
   } else {
     cautions.push_back("fewer than 3 accepted points in the trend window: no trend");
   }

@@ -1,6 +1,7 @@
 // The trend and seasonal part of a transect summary.
 //   points   accepted, corrected, with sigma_m > 0, inside the optional window
-//   weights  1/sigma^2 with sigma^2 = sigma_m^2 - sigma_slope_m^2: the slope term is
+//   weights  1/sigma^2 with sigma^2 = sigma_m^2 - sigma_slope_m^2 - sigma_sensor_offset_m^2
+//            (the applied sensor offset's term: see TrendOffsetTerm): the slope term is
 //            common to every point of the transect (a shared bias, not noise), so it
 //            stays out of the weights and is carried by re-evaluating the trend with
 //            the positions recomputed at the slope's 95% interval bounds:
@@ -41,6 +42,18 @@ struct TrendSlopeTerm {
   std::optional<Interval> ci95_with_slope_m_per_yr;  // only when the statistical interval exists
 };
 
+// The applied sensor offsets' share (sensor_offsets step): each shifted family's
+// offset is common to all its points (a shared bias, like the slope term), so
+// it stays out of the weights and is carried by refitting with that family's
+// points moved by the offset's 95% half-width (t_{0.975,dof} SE of an estimated
+// offset, 1.96 sigma of a given one):
+//   offset term = sqrt(sum over families (rate(moved) - rate)^2)
+//   combined half-width = sqrt(statistical^2 + slope term^2 (when known) + offset term^2)
+struct TrendOffsetTerm {
+  double offset_term_m_per_yr = kUnknown;  // unknown when an applied offset has no sigma
+  std::optional<Interval> ci95_with_sensor_offsets_m_per_yr;  // needs the statistical interval and the term
+};
+
 struct TrendSummary {
   double rate_m_per_yr = kUnknown;
   double intercept_m = kUnknown;  // fitted position at the weighted mean time
@@ -52,6 +65,7 @@ struct TrendSummary {
   double dof = kUnknown;
   std::optional<Interval> ci95_m_per_yr;  // statistical only
   std::optional<TrendSlopeTerm> slope_term;
+  std::optional<TrendOffsetTerm> sensor_offset_term;  // only when offsets were applied to trend points
 };
 
 struct SeasonalSummary {

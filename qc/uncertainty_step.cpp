@@ -64,6 +64,8 @@ void UncertaintyStep::process(SiteTable& table, std::size_t transect, const RunI
     add(s_wl, Flag::sigma_water_level_unknown);
     add(s_slope, Flag::sigma_slope_unknown);
     if (wave_term_used) add(s_wave, Flag::sigma_wave_unknown);
+    // Only a point shifted by a sensor offset carries that offset's uncertainty.
+    if (known(table.sensor_offset_m[i])) add(table.sigma_sensor_offset_m[i], Flag::sigma_sensor_offset_unknown);
     table.sigma_m[i] = std::sqrt(sum2);
     log.count("points");
   }

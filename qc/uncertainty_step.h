@@ -6,6 +6,9 @@
 //                term 0.35*sqrt(H0*L0) does not depend on the slope; with `runup`
 //                |eta - z_ref| gains the level c of runup_slope_sensitivity_level_m)
 //   wave term    sigma_wave / tan(beta)
+//   sensor offset  the applied offset's 1-sigma (sigma_sensor_offset_m), only on
+//                points the sensor_offsets step shifted; like the slope term it is
+//                shared (by every point of a family): trends carry it separately
 // A term that cannot be known is left out of sigma_m and named in a flag; it is
 // never counted as zero. The slope term is shared by all points of a transect:
 // trends carry it separately (see the summary), not as independent noise.

@@ -23,12 +23,14 @@ struct CleanedRow {
   double z_ref_m = kUnknown;
   double slope = kUnknown;
   double correction_m = kUnknown;
+  double sensor_offset_m = kUnknown;  // subtracted sensor-family offset (unknown: none applied)
   double chainage_m = kUnknown;
   double sigma_m = kUnknown;
   double sigma_sensor_m = kUnknown;
   double sigma_water_level_m = kUnknown;
   double sigma_slope_m = kUnknown;
   double sigma_wave_m = kUnknown;
+  double sigma_sensor_offset_m = kUnknown;  // only where a sensor offset was applied
   double cloud_fraction = kUnknown;
   double georef_rmse_m = kUnknown;
   FlagSet flags = 0;

@@ -35,6 +35,8 @@ const std::vector<FlagInfo>& flag_table() {
       {Flag::sparse_period, "sparse_period", S::warn, "too few accepted points in the surrounding period"},
       {Flag::storm_response, "storm_response", S::info,
        "landward jump coinciding with high waves and persisting: storm response, kept as real change"},
+      {Flag::sensor_offset_applied, "sensor_offset_applied", S::info,
+       "position shifted by the offset of its sensor family (sensor_offsets step)"},
       {Flag::sigma_sensor_unknown, "sigma_sensor_unknown", S::warn,
        "sensor class uncertainty unknown: sigma_m omits it"},
       {Flag::sigma_water_level_unknown, "sigma_water_level_unknown", S::warn,
@@ -48,6 +50,8 @@ const std::vector<FlagInfo>& flag_table() {
        "with a wider sigma"},
       {Flag::slope_poorly_constrained, "slope_poorly_constrained", S::warn,
        "the slope's 95% interval touches the search range or is wider than the slope itself"},
+      {Flag::sigma_sensor_offset_unknown, "sigma_sensor_offset_unknown", S::warn,
+       "uncertainty of the applied sensor offset unknown: sigma_m omits it"},
   };
   return table;
 }

@@ -30,14 +30,15 @@ enum class Flag : std::uint8_t {
   image_misregistered,
   sparse_period,
   storm_response,
+  sensor_offset_applied,     // the position was shifted by its sensor family's offset
   // Uncertainty terms that could not be known (sigma_m holds the known terms only)
   sigma_sensor_unknown,
   sigma_water_level_unknown,
   sigma_slope_unknown,
   sigma_wave_unknown,
-  // Appended (stored flag sets keep their bits)
   coarse_gauge,              // the gauge samples around the image are more than ~1 h apart
   slope_poorly_constrained,  // the slope's 95% interval touches the search range or exceeds the slope
+  sigma_sensor_offset_unknown,
   count_  // keep last
 };
 

@@ -9,6 +9,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "corrections/core/sensor_offset.h"
 #include "corrections/core/sensor_table.h"
 #include "corrections/core/site_table.h"
 #include "corrections/core/time_utc.h"
@@ -77,6 +78,7 @@ struct RunInputs {
   const WaveSource* waves = nullptr;
   WaveCorrection wave_correction = WaveCorrection::setup;
   const SensorTable* sensors = nullptr;
+  SensorOffsetMode sensor_offset_mode = SensorOffsetMode::estimate;  // the sensor_offsets step
   SlopePlan slopes;
 
   double z_ref_for(const std::string& transect_id) const {

@@ -20,9 +20,12 @@ void SiteTable::reset_derived() {
   const std::size_t n = size();
   for (auto* column : {&water_level_m, &water_level_sigma_m, &hs0_m, &l0_m, &setup_m, &runup_m,
                        &wave_level_m, &wave_sigma_m, &correction_m, &chainage_m, &sigma_m,
-                       &sigma_sensor_m, &sigma_water_level_m, &sigma_slope_m, &sigma_wave_m})
+                       &sigma_sensor_m, &sigma_water_level_m, &sigma_slope_m, &sigma_wave_m,
+                       &sensor_offset_m, &sigma_sensor_offset_m})
     column->assign(n, kUnknown);
   flags.assign(n, 0);
+  sensor_offsets = {};
+  for (auto& t : transects) t.sensor_offsets.clear();
 }
 
 std::uint32_t SiteTableBuilder::transect_index(const std::string& id) {

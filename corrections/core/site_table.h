@@ -17,6 +17,7 @@
 #include <nlohmann/json.hpp>
 
 #include "corrections/core/flags.h"
+#include "corrections/core/sensor_offset.h"
 #include "corrections/core/time_utc.h"
 
 namespace strandline {
@@ -51,6 +52,7 @@ struct TransectInfo {
   SlopeSource slope_source = SlopeSource::none;
   bool slope_identifiable = true;
   nlohmann::json slope_details;  // what the slope step found (band, energy curve, verdict)
+  std::vector<FamilyOffset> sensor_offsets;  // this transect's own estimates (sensor_offsets step)
 
   std::size_t size() const { return end - begin; }
 };
@@ -76,18 +78,23 @@ struct SiteTable {
   std::vector<double> wave_level_m;         // the wave term entering the correction
   std::vector<double> wave_sigma_m;         // 1-sigma of the wave term (vertical)
   std::vector<double> correction_m;         // chainage_m - chainage_raw_m
+  std::vector<double> sensor_offset_m;      // sensor offset subtracted from the position (NaN: none)
   std::vector<double> chainage_m;           // corrected position of the z_ref contour
   std::vector<double> sigma_m;              // total 1-sigma horizontal uncertainty
   std::vector<double> sigma_sensor_m;       // terms of sigma_m (horizontal metres)
   std::vector<double> sigma_water_level_m;
   std::vector<double> sigma_slope_m;
   std::vector<double> sigma_wave_m;
+  std::vector<double> sigma_sensor_offset_m;  // 1-sigma of the applied sensor offset (NaN: none applied)
   std::vector<FlagSet> flags;
 
   // ---- dictionaries ----
   std::vector<TransectInfo> transects;
   std::vector<std::string> image_ids;
   std::vector<std::string> sensor_names;
+
+  // ---- site results ----
+  SiteSensorOffsets sensor_offsets;
 
   std::size_t size() const { return time_s.size(); }
   bool accepted(std::size_t row) const { return is_accepted(flags[row]); }

@@ -39,6 +39,9 @@ PreparedRun::PreparedRun(RunConfig config, RunMaterial material)
   inputs_.reference_elevation_m = s.reference_elevation_m;
   inputs_.z_ref_by_transect = material_.z_ref_by_transect;
   inputs_.sensors = &material_.sensors;
+  inputs_.sensor_offset_mode = s.sensor_offsets;
+  if (s.sensor_offsets == SensorOffsetMode::given && !material_.sensors.has_offsets())
+    throw InputError("sensor offsets \"given\", but the sensor table lists no offset_m");
   inputs_.slopes.per_transect = material_.listed_slopes;
   inputs_.slopes.all = s.fixed_slope;
   inputs_.slopes.default_value = s.default_slope;

@@ -91,7 +91,8 @@ nlohmann::json settings_json(const RunSettings& s) {
             {"search_range", {s.search_min, s.search_max}},
             {"default", s.default_slope ? number_or_null(s.default_slope->slope) : nlohmann::json()},
             {"default_sigma", s.default_slope ? number_or_null(s.default_slope->slope_sigma) : nlohmann::json()}}},
-          {"trend_window", {{"from", time_or_null(s.summary.trend_from_s)}, {"to", time_or_null(s.summary.trend_to_s)}}}};
+          {"trend_window", {{"from", time_or_null(s.summary.trend_from_s)}, {"to", time_or_null(s.summary.trend_to_s)}}},
+          {"sensor_offsets", std::string(sensor_offset_mode_name(s.sensor_offsets))}};
 }
 
 }  // namespace
@@ -111,9 +112,15 @@ RunConfig read_run_config(const nlohmann::json& config, const RunDefaults& defau
     s.wave_correction = *parsed;
   else
     top.fail("wave_correction", "expected \"none\", \"setup\" or \"runup\"");
+  std::string offsets = std::string(sensor_offset_mode_name(s.sensor_offsets));
+  top.text("sensor_offsets", offsets);
+  if (auto parsed = sensor_offset_mode_from_name(offsets))
+    s.sensor_offsets = *parsed;
+  else
+    top.fail("sensor_offsets", "expected \"estimate\", \"none\" or \"given\"");
   read_slope(top.raw("slope"), s, defaults);
   read_trend_window(top.raw("trend_window"), s.summary);
-  for (const char* key : {"reference_elevation_m", "wave_correction", "slope", "trend_window"}) pipeline_part.erase(key);
+  for (const char* key : {"reference_elevation_m", "wave_correction", "slope", "trend_window", "sensor_offsets"}) pipeline_part.erase(key);
 
   RunConfig out{configured_pipeline(pipeline_part), s, nullptr};
   out.effective = out.pipeline.config();

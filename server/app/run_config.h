@@ -8,7 +8,8 @@
 //   "slope": {"fixed": v, "fixed_sigma": v,          one slope for every transect
 //             "estimate": bool, "search_range": [min, max],   estimate where none is listed
 //             "default": v, "default_sigma": v},              where neither gives one (flagged)
-//   "trend_window": {"from": TIME, "to": TIME}
+//   "trend_window": {"from": TIME, "to": TIME},
+//   "sensor_offsets": "estimate" | "none" | "given"   (corrections/core/sensor_offset.h)
 // A key left out takes the caller's default (RunDefaults): a site's reference
 // elevation and default slope in the service, the built-in values in the batch.
 // The effective configuration (every key resolved) is what provenance records.
@@ -38,6 +39,7 @@ struct RunSettings {
   double search_min = 0.01, search_max = 0.2;
   std::optional<SlopeValue> fixed_slope;
   std::optional<SlopeValue> default_slope;
+  SensorOffsetMode sensor_offsets = SensorOffsetMode::estimate;
   SummaryOptions summary;
 };
 

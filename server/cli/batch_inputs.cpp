@@ -132,6 +132,26 @@ void apply_options(const Args& args, const BatchOptions& options, nlohmann::json
       throw UsageError("option --wave-correction \"" + *mode + "\": expected none, setup or runup");
     config["wave_correction"] = *mode;
   }
+  // estimate | none name the mode; anything else is a sensor table whose offsets are applied.
+  if (auto offsets = args.get("sensor-offsets")) {
+    const bool mode = *offsets == "estimate" || *offsets == "none";
+    if (!mode && !std::ifstream(*offsets))
+      throw UsageError("option --sensor-offsets \"" + *offsets +
+                       "\": expected estimate, none or a sensor table FILE (cannot open it)");
+    config["sensor_offsets"] = mode ? *offsets : "given";
+  }
+}
+
+// The offset_m (and offset_sigma_m) of each sensor of `path` onto the run's table;
+// a sensor the run's table lacks is added with the file's class and sigma.
+void read_sensor_offsets(const std::string& path, app::RunMaterial& material) {
+  const SensorTable given = SensorTable::from_csv_file(path);
+  if (!given.has_offsets()) throw InputError(path, 0, "offset_m", "", "no sensor has an offset_m");
+  for (const auto& [sensor, c] : given.entries()) {
+    if (!material.sensors.lookup(sensor)) material.sensors.add(sensor, c.name, c.sigma_m, c.family);
+    if (!std::isnan(c.offset_m)) material.sensors.set_offset(sensor, c.offset_m, c.offset_sigma_m);
+  }
+  record_file(material, "sensor_offsets", path);
 }
 
 void read_water_level_inputs(const Args& args, app::RunMaterial& material) {
@@ -193,7 +213,10 @@ void add_batch_options(Args& args, const BatchOptions& options) {
       .add_value("transect-params", "FILE", "per-transect slope, slope_sigma, z_ref_m (CSV)")
       .add_value("default-slope", "VALUE", "slope for transects not listed (flagged default_slope)")
       .add_value("default-slope-sigma", "V", "1-sigma of the default slope")
-      .add_value("sensor-table", "FILE", "sensor,class,sigma_m CSV replacing the built-in table")
+      .add_value("sensor-table", "FILE", "sensor,class,sigma_m[,family] CSV replacing the built-in table")
+      .add_value("sensor-offsets", "MODE|FILE",
+                 "offsets between sensor families: estimate (default: report, correct the\n"
+                 "significant ones), none (report only) or a sensor table with offset_m to apply")
       .add_value("waves", "FILE",
                  "wave record CSV (time,hs_m,tp_s[,dir_deg][,depth_m]); Hs deshoaled to deep\n"
                  "water when depth_m is given")
@@ -224,6 +247,8 @@ BatchInputs load_batch_inputs(const Args& args, const BatchOptions& options) {
     material.sensors = SensorTable::from_csv_file(*table);
     record_file(material, "sensor_table", *table);
   }
+  if (auto offsets = args.get("sensor-offsets"); offsets && *offsets != "estimate" && *offsets != "none")
+    read_sensor_offsets(*offsets, material);
   read_slope_inputs(args, run_config.settings.fixed_slope.has_value(), material);
   read_water_level_inputs(args, material);
   if (auto path = args.get("waves")) {

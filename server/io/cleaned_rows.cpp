@@ -26,6 +26,8 @@ const std::vector<ColumnSpec>& cleaned_columns() {
       {"sigma_slope_m", K::real, 2},    {"sigma_wave_m", K::real, 2},
       {"cloud_fraction", K::real, 3},   {"georef_rmse_m", K::real, 2},
       {"flags", K::text},               {"accepted", K::integer},
+      // Appended (formats reference, Compatibility): the applied sensor offset and its term.
+      {"sensor_offset_m", K::real, 3},  {"sigma_sensor_offset_m", K::real, 2},
   };
   return columns;
 }
@@ -55,6 +57,8 @@ void cleaned_values(const CleanedRow& r, std::vector<CellValue>& out) {
     out.push_back(real(v));
   out.emplace_back(flag_list(r.flags));
   out.emplace_back(std::int64_t{r.accepted ? 1 : 0});
+  out.push_back(real(r.sensor_offset_m));
+  out.push_back(real(r.sigma_sensor_offset_m));
 }
 
 nlohmann::json cleaned_row_json(const CleanedRow& r) {

@@ -36,7 +36,62 @@ json trend_json(const TrendSummary& t) {
     j["slope_term_m_per_yr"] = nullptr;
     j["ci95_with_slope_m_per_yr"] = nullptr;
   }
+  if (const auto& term = t.sensor_offset_term) {
+    j["sensor_offset_term_m_per_yr"] = number_or_null(term->offset_term_m_per_yr);
+    j["ci95_with_sensor_offsets_m_per_yr"] = pair_or_null(term->ci95_with_sensor_offsets_m_per_yr);
+  } else {
+    j["sensor_offset_term_m_per_yr"] = nullptr;
+    j["ci95_with_sensor_offsets_m_per_yr"] = nullptr;
+  }
   return j;
+}
+
+json offset_json(const SensorOffsetReport& r) {
+  const FamilyOffset& f = r.estimate;
+  return {{"family", f.family},
+          {"reference_family", f.reference_family},
+          {"offset_m", number_or_null(f.offset_m)},
+          {"se_m", number_or_null(f.se_m)},
+          {"dof", number_or_null(f.dof)},
+          {"ci95_m", known(f.ci95_low_m) ? pair({f.ci95_low_m, f.ci95_high_m}) : json(nullptr)},
+          {"significant", f.significant()},
+          {"corrected", r.corrected},
+          {"n_bins", f.n_bins},
+          {"n_points", f.n_points},
+          {"n_reference_points", f.n_reference_points}};
+}
+
+json offsets_json(const std::vector<SensorOffsetReport>& reports) {
+  json out = json::array();
+  for (const auto& r : reports) out.push_back(offset_json(r));
+  return out;
+}
+
+json site_offsets_json(const SiteSummary& s) {
+  if (!s.sensor_offsets) return nullptr;
+  json applied = json::array();
+  for (const auto& [sensor, v] : s.sensor_offsets->applied_m)
+    applied.push_back({{"sensor", sensor},
+                       {"offset_m", v},
+                       {"sigma_m", number_or_null(s.sensor_offsets->applied_sigma_m.at(sensor))}});
+  return {{"mode", std::string(sensor_offset_mode_name(s.sensor_offsets->mode))},
+          {"reference_family", s.sensor_offsets->reference_family.empty()
+                                   ? json(nullptr)
+                                   : json(s.sensor_offsets->reference_family)},
+          {"estimates", offsets_json(s.site_sensor_offsets)},
+          {"applied", std::move(applied)}};
+}
+
+json noise_json(const std::vector<SensorNoise>& noise) {
+  json out = json::array();
+  for (const auto& n : noise)
+    out.push_back({{"sensor", n.sensor},
+                   {"class", n.class_name.empty() ? json(nullptr) : json(n.class_name)},
+                   {"family", n.family.empty() ? json(nullptr) : json(n.family)},
+                   {"stated_sigma_m", number_or_null(n.stated_sigma_m)},
+                   {"measured_sigma_m", number_or_null(n.measured_sigma_m)},
+                   {"n", n.n}});
+  return out;
 }
 
 json seasonal_json(const SeasonalSummary& s) {
@@ -80,6 +135,8 @@ json transect_summary_json(const TransectSummary& s) {
         {"n_points", s.trend_window.n_points}}},
       {"trend", s.trend ? trend_json(*s.trend) : json(nullptr)},
       {"seasonal", s.seasonal ? seasonal_json(*s.seasonal) : json(nullptr)},
+      {"sensor_offsets", offsets_json(s.sensor_offsets)},
+      {"sensor_noise", noise_json(s.sensor_noise)},
       {"cautions", s.cautions},
   };
   if (!s.slope_details.is_null()) j["slope_details"] = s.slope_details;
@@ -93,6 +150,8 @@ json site_summary_json(const SiteSummary& s) {
           {"reference_elevation_m", s.reference_elevation_m},
           {"wave_correction", wave_correction_name(s.wave_correction)},
           {"transects", std::move(transects)},
+          {"sensor_offsets", site_offsets_json(s)},
+          {"sensor_noise", noise_json(s.sensor_noise)},
           {"cautions", s.cautions}};
 }
 

@@ -12,16 +12,18 @@ namespace strandline::store {
 namespace {
 
 static_assert(std::endian::native == std::endian::little, "the stored rows are little-endian");
-constexpr std::string_view kMagic = "SLR1";
+constexpr std::string_view kMagic = "SLR2";
+constexpr std::string_view kMagicV1 = "SLR1";  // before the sensor-offset columns; still read
 
-// The real columns in stored order (a new column means a new magic).
+// The real columns in stored order (a new column means a new magic): SLR1's, then SLR2's.
 constexpr double CleanedRow::*kReals[] = {
     &CleanedRow::chainage_raw_m, &CleanedRow::water_level_m,  &CleanedRow::setup_m,
     &CleanedRow::runup_m,        &CleanedRow::wave_level_m,   &CleanedRow::z_ref_m,
     &CleanedRow::slope,          &CleanedRow::correction_m,   &CleanedRow::chainage_m,
     &CleanedRow::sigma_m,        &CleanedRow::sigma_sensor_m, &CleanedRow::sigma_water_level_m,
     &CleanedRow::sigma_slope_m,  &CleanedRow::sigma_wave_m,   &CleanedRow::cloud_fraction,
-    &CleanedRow::georef_rmse_m};
+    &CleanedRow::georef_rmse_m,  &CleanedRow::sensor_offset_m, &CleanedRow::sigma_sensor_offset_m};
+constexpr std::size_t kRealsV1 = 16;
 
 template <class T>
 void put(std::string& out, T value) {
@@ -94,7 +96,9 @@ std::string encode_result_rows(const std::vector<CleanedRow>& rows) {
 }
 
 std::vector<CleanedRow> decode_result_rows(std::string_view bytes) {
-  if (bytes.substr(0, kMagic.size()) != kMagic) throw StoreError("stored result rows have an unknown format");
+  const std::string_view magic = bytes.substr(0, kMagic.size());
+  if (magic != kMagic && magic != kMagicV1) throw StoreError("stored result rows have an unknown format");
+  const std::size_t n_reals = magic == kMagic ? std::size(kReals) : kRealsV1;
   Reader in(bytes.substr(kMagic.size()));
   std::vector<CleanedRow> rows(in.get<std::uint32_t>());
   for (auto& r : rows) {
@@ -102,7 +106,7 @@ std::vector<CleanedRow> decode_result_rows(std::string_view bytes) {
     r.time_s = in.get<TimeS>();
     r.sensor = in.text();
     r.image_id = in.text();
-    for (auto member : kReals) r.*member = in.get<double>();
+    for (std::size_t k = 0; k < n_reals; ++k) r.*kReals[k] = in.get<double>();
     r.flags = flags_from_names(in.text());
     r.accepted = in.get<std::uint8_t>() != 0;
   }
@@ -114,7 +118,8 @@ std::vector<CleanedRow> rows_from_series_json(const nlohmann::json& rows) {
   static const char* const kNames[] = {"chainage_raw_m",   "water_level_m",       "setup_m",         "runup_m",
                                        "wave_level_m",     "z_ref_m",             "slope",           "correction_m",
                                        "chainage_m",       "sigma_m",             "sigma_sensor_m",  "sigma_water_level_m",
-                                       "sigma_slope_m",    "sigma_wave_m",        "cloud_fraction",  "georef_rmse_m"};
+                                       "sigma_slope_m",    "sigma_wave_m",        "cloud_fraction",  "georef_rmse_m",
+                                       "sensor_offset_m",  "sigma_sensor_offset_m"};
   static_assert(std::size(kNames) == std::size(kReals));
   std::vector<CleanedRow> out;
   for (const auto& j : rows) {
@@ -124,6 +129,8 @@ std::vector<CleanedRow> rows_from_series_json(const nlohmann::json& rows) {
     r.sensor = j.at("sensor").get<std::string>();
     r.image_id = j.at("image_id").get<std::string>();
     for (std::size_t k = 0; k < std::size(kReals); ++k) {
+      // Documents written before the sensor-offset columns lack them: unknown.
+      if (k >= kRealsV1 && !j.contains(kNames[k])) continue;
       const auto& v = j.at(kNames[k]);
       r.*kReals[k] = v.is_null() ? kUnknown : v.get<double>();
     }

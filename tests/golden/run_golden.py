@@ -44,6 +44,7 @@ ENGINE_COLUMNS = [
     "transect_id", "time", "sensor", "image_id", "chainage_raw_m", "water_level_m", "setup_m", "runup_m",
     "wave_level_m", "z_ref_m", "slope", "correction_m", "chainage_m", "sigma_m", "sigma_sensor_m",
     "sigma_water_level_m", "sigma_slope_m", "sigma_wave_m", "cloud_fraction", "georef_rmse_m", "flags", "accepted",
+    "sensor_offset_m", "sigma_sensor_offset_m",
 ]
 NUMERIC_COLUMNS = set(ENGINE_COLUMNS) - {"transect_id", "time", "sensor", "image_id", "flags"}
 # Selected per-transect summary values kept in expected/summary.json.

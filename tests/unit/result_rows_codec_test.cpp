@@ -50,6 +50,39 @@ TEST(ResultRowsCodec, EveryFieldRoundTrips) {
   EXPECT_EQ(back[1].flags, FlagSet{0});
 }
 
+TEST(ResultRowsCodec, SensorOffsetColumnsRoundTripAndOldRecordsStillRead) {
+  CleanedRow r = sample_row();
+  r.sensor_offset_m = 15.25;
+  r.sigma_sensor_offset_m = 0.5;
+  const auto back = decode_result_rows(encode_result_rows({r}));
+  EXPECT_EQ(back[0].sensor_offset_m, 15.25);
+  EXPECT_EQ(back[0].sigma_sensor_offset_m, 0.5);
+  EXPECT_EQ(back[0].georef_rmse_m, 3.0);
+
+  // A record of the format before those columns ("SLR1": 16 reals), written by hand.
+  std::string v1 = "SLR1";
+  const auto put = [&v1](const auto& value) { v1.append(reinterpret_cast<const char*>(&value), sizeof value); };
+  const auto text = [&](const std::string& t) {
+    put(static_cast<std::uint32_t>(t.size()));
+    v1 += t;
+  };
+  put(std::uint32_t{1});
+  text("T");
+  put(1.6e9);
+  text("landsat8");
+  text("I");
+  for (int k = 1; k <= 16; ++k) put(double(k));
+  text("spike");
+  put(std::uint8_t{0});
+  const auto old = decode_result_rows(v1);
+  ASSERT_EQ(old.size(), 1u);
+  EXPECT_EQ(old[0].chainage_raw_m, 1.0);
+  EXPECT_EQ(old[0].georef_rmse_m, 16.0);
+  EXPECT_TRUE(std::isnan(old[0].sensor_offset_m));
+  EXPECT_TRUE(std::isnan(old[0].sigma_sensor_offset_m));
+  EXPECT_EQ(old[0].flags, flag_bit(Flag::spike));
+}
+
 TEST(ResultRowsCodec, DamagedRecordsAreRefused) {
   const std::string bytes = encode_result_rows({sample_row()});
   EXPECT_THROW(decode_result_rows(bytes.substr(0, bytes.size() - 1)), StoreError);

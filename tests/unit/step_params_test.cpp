@@ -222,6 +222,7 @@ TEST(StepParams, EffectiveDefaultsKeepTheirProvenanceShape) {
     "wave_terms": {"runup_sigma_m": 0.38, "setup_sigma_m": 0.38},
     "correct": {},
     "image_quality": {"cloud_fraction_max": 0.75, "georef_rmse_max_m": 15.0},
+    "sensor_offsets": {"bin_days": 30.0, "min_bins": 10, "reference_family": ""},
     "storm_response": {"hs_threshold_m": 0.0, "hs_quantile": 0.99, "hs_min_m": 2.5, "scan_step_s": 10800.0,
                        "max_gap_s": 21600.0, "merge_gap_days": 2.0, "pre_window_days": 45.0, "min_pre_points": 3,
                        "jump_min_m": 10.0, "jump_noise_k": 2.0, "persist_points": 3, "persist_days": 60.0,

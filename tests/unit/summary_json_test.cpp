@@ -67,6 +67,9 @@ TEST(SummaryJson, TransectWithTooFewPointsHasEveryKeyInItsNullForm) {
     "trend_window": {"from": null, "to": null, "n_points": 2},
     "trend": null,
     "seasonal": null,
+    "sensor_offsets": [],
+    "sensor_noise": [{"sensor": "landsat8", "class": null, "family": null, "stated_sigma_m": null,
+                      "measured_sigma_m": null, "n": 1}],
     "cautions": ["more than 20% of the corrected points were rejected",
                  "fewer than 3 accepted points in the trend window: no trend",
                  "fewer than 8 points or less than a year: no seasonal fit"]
@@ -88,6 +91,11 @@ TEST(SummaryJson, SiteDocumentWrapsTheTransectsWithTheRunsSettings) {
                    {"reference_elevation_m", 0.75},
                    {"wave_correction", "none (no wave record)"},
                    {"transects", json::array()},
+                   {"sensor_offsets", nullptr},
+                   // Two accepted points give one difference: too few for a scatter. No
+                   // sensor table: class, family and stated sigma unknown.
+                   {"sensor_noise", json::parse(R"([{"sensor": "landsat8", "class": null, "family": null,
+                       "stated_sigma_m": null, "measured_sigma_m": null, "n": 1}])")},
                    {"cautions", standard_cautions()}};
   ASSERT_TRUE(actual.contains("transects"));
   ASSERT_EQ(actual["transects"].size(), 1u);
@@ -129,6 +137,20 @@ TEST(SummaryJson, FullTransectWritesEveryTrendAndSeasonalKey) {
   tr.dof = 26.0;
   tr.ci95_m_per_yr = Interval{-2.25, -0.75};
   tr.slope_term = TrendSlopeTerm{{-1.25, -1.875}, 0.375, Interval{-2.5, -0.5}};
+  tr.sensor_offset_term = TrendOffsetTerm{0.25, Interval{-2.625, -0.375}};
+  FamilyOffset f;
+  f.family = "sentinel2";
+  f.reference_family = "landsat";
+  f.offset_m = 15.5;
+  f.se_m = 1.25;
+  f.dof = 40.5;
+  f.ci95_low_m = 13.0;
+  f.ci95_high_m = 18.0;
+  f.n_bins = 90;
+  f.n_points = 400;
+  f.n_reference_points = 250;
+  s.sensor_offsets = {{f, true}};
+  s.sensor_noise = {{"sentinel2a", "moderate_resolution", "sentinel2", 10.0, 7.25, 120}};
   s.seasonal = SeasonalSummary{4.5, 0.5, 30.0, 30.4375};
   s.cautions = {"a caution"};
   s.slope_details = {{"verdict", "identifiable"}, {"ci95", {0.1, 0.15}}};
@@ -162,10 +184,17 @@ TEST(SummaryJson, FullTransectWritesEveryTrendAndSeasonalKey) {
       "rate_at_slope_ci95_m_per_yr": [-1.25, -1.875],
       "slope_term_m_per_yr": 0.375,
       "ci95_with_slope_m_per_yr": [-2.5, -0.5],
+      "sensor_offset_term_m_per_yr": 0.25,
+      "ci95_with_sensor_offsets_m_per_yr": [-2.625, -0.375],
       "serial_correlation": "AR(1) effective sample size (Santer et al. 2000)"
     },
     "seasonal": {"amplitude_m": 4.5, "amplitude_sigma_m": 0.5, "phase_deg": 30.0,
                  "most_seaward_day_of_year": 30.4375},
+    "sensor_offsets": [{"family": "sentinel2", "reference_family": "landsat", "offset_m": 15.5, "se_m": 1.25,
+                        "dof": 40.5, "ci95_m": [13.0, 18.0], "significant": true, "corrected": true,
+                        "n_bins": 90, "n_points": 400, "n_reference_points": 250}],
+    "sensor_noise": [{"sensor": "sentinel2a", "class": "moderate_resolution", "family": "sentinel2",
+                      "stated_sigma_m": 10.0, "measured_sigma_m": 7.25, "n": 120}],
     "cautions": ["a caution"],
     "slope_details": {"verdict": "identifiable", "ci95": [0.1, 0.15]}
   })json");

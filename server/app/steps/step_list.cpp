@@ -11,6 +11,7 @@
 #include "qc/image_misregistration_step.h"
 #include "qc/image_quality_step.h"
 #include "qc/implausible_rate_step.h"
+#include "qc/sensor_offset_step.h"
 #include "qc/sparse_period_step.h"
 #include "qc/storm_response_step.h"
 #include "qc/uncertainty_step.h"
@@ -39,6 +40,8 @@ const StepList& step_list() {
       entry<WaveTermsStep>("wave_terms", true, false,
                            "Stockdon (2006) setup and R2% with the slope; the wave term applied"),
       entry<CorrectStep>("correct", true, false, "horizontal shift to the reference contour"),
+      entry<SensorOffsetStep>("sensor_offsets", true, false,
+                              "offsets between sensor families: estimated, applied as the run configuration says"),
       // QC filters: flag, never delete (storm_response first so the outlier filters spare real change).
       entry<ImageQualityStep>("image_quality", true, true, "cloud fraction and geolocation RMSE thresholds"),
       entry<StormResponseStep>("storm_response", true, true,
