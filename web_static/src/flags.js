@@ -24,6 +24,8 @@ export const FLAGS = {
   sigma_wave_unknown: ['warns', 'wave term unknown: sigma omits it'],
   coarse_gauge: ['warns', 'gauge samples more than ~1 h apart around the image: interpolated, wider sigma'],
   slope_poorly_constrained: ['warns', 'the slope interval touches the search range or is wider than the slope'],
+  sensor_offset_applied: ['info', 'position shifted by the offset of its sensor family'],
+  sigma_sensor_offset_unknown: ['warns', 'sensor-offset term unknown: sigma omits it'],
 };
 
 export function flagSeverity(name) {
