@@ -175,6 +175,19 @@ SiteSummary site_summary(const SiteTable& table, const RunInputs& inputs, const 
   if (inputs.waves != nullptr) s.wave_correction = inputs.wave_correction;
   s.transects.reserve(table.transects.size());
   for (std::size_t t = 0; t < table.transects.size(); ++t) s.transects.push_back(transect_summary(table, t, inputs, options));
+  add_site_level_parts(table, inputs, s);
+  return s;
+}
+
+SiteSummary site_level_summary(const SiteTable& table, const RunInputs& inputs) {
+  SiteSummary s;
+  s.reference_elevation_m = inputs.reference_elevation_m;
+  if (inputs.waves != nullptr) s.wave_correction = inputs.wave_correction;
+  add_site_level_parts(table, inputs, s);
+  return s;
+}
+
+void add_site_level_parts(const SiteTable& table, const RunInputs& inputs, SiteSummary& s) {
   if (table.sensor_offsets.ran) {
     s.sensor_offsets = table.sensor_offsets;
     const auto families = sensor_families(table, inputs);
@@ -183,7 +196,6 @@ SiteSummary site_summary(const SiteTable& table, const RunInputs& inputs, const 
   }
   s.sensor_noise = sensor_noise_report(table, inputs);
   s.cautions = standard_cautions();
-  return s;
 }
 
 }  // namespace strandline

@@ -95,5 +95,10 @@ std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, const RunIn
 std::vector<SensorNoise> sensor_noise_report(const SiteTable& table, std::size_t transect, const RunInputs& inputs);
 
 SiteSummary site_summary(const SiteTable& table, const RunInputs& inputs, const SummaryOptions& options);
+// The site-wide parts alone (sensor offsets pooled over the run's transects, the
+// per-sensor noise, the cautions), no transect summaries: what a service run keeps
+// in its provenance for GET .../summary, whose transects come from several runs.
+SiteSummary site_level_summary(const SiteTable& table, const RunInputs& inputs);
+void add_site_level_parts(const SiteTable& table, const RunInputs& inputs, SiteSummary& summary);
 
 }  // namespace strandline

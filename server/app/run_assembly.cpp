@@ -84,6 +84,7 @@ nlohmann::json PreparedRun::provenance(const RunRecord& record, const SiteTable&
           {"water_levels", inputs_.water_levels->describe()},
           {"waves", inputs_.waves ? inputs_.waves->describe() : nlohmann::json()},
           {"steps", record.to_json()},
+          {"site_summary", site_level_summary_json(site_level_summary(table, inputs_))},
           {"rows", {{"input", rows.input}, {"rejected", rows.rejected}, {"cleaned", table.size()}, {"accepted", accepted}}},
           {"started", started},
           {"finished", finished}};

@@ -250,6 +250,9 @@ json build() {
   schemas["Summary"] = {{"type", "object"},
                         {"properties", {{"site", str}, {"latest_run", {{"type", "integer"}, {"nullable", true}}},
                                         {"transects", {{"type", "array"}, {"items", {{"type", "object"}}}}},
+                                        {"sensor_offsets", {{"type", "object"}, {"nullable", true},
+                                                            {"description", "site-wide sensor offsets of the latest run"}}},
+                                        {"sensor_noise", {{"type", "array"}, {"nullable", true}, {"items", {{"type", "object"}}}}},
                                         {"cautions", {{"type", "array"}, {"items", str}}}}}};
   schemas["Changes"] = {{"type", "object"},
                         {"properties", {{"site", str}, {"cursor", str}, {"more", {{"type", "boolean"}}},

@@ -129,7 +129,12 @@ void get_summary(Context& c) {
   nlohmann::json body = {{"site", site.id},
                          {"latest_run", latest ? nlohmann::json(latest->id) : nlohmann::json()},
                          {"transects", transects},
+                         {"sensor_offsets", nullptr},
+                         {"sensor_noise", nullptr},
                          {"cautions", standard_cautions()}};
+  // The site-wide parts come from the latest finished run (over the transects it processed).
+  if (latest && latest->provenance.contains("site_summary"))
+    for (const char* key : {"sensor_offsets", "sensor_noise"}) body[key] = latest->provenance["site_summary"].value(key, nlohmann::json());
   std::string text = body.dump();
   // The tag is taken before the text is handed over (an argument moved from
   // in the same call would leave the hash of whatever remained).

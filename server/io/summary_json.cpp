@@ -143,16 +143,20 @@ json transect_summary_json(const TransectSummary& s) {
   return j;
 }
 
+json site_level_summary_json(const SiteSummary& s) {
+  return {{"sensor_offsets", site_offsets_json(s)}, {"sensor_noise", noise_json(s.sensor_noise)}};
+}
+
 json site_summary_json(const SiteSummary& s) {
   json transects = json::array();
   for (const auto& t : s.transects) transects.push_back(transect_summary_json(t));
-  return {{"schema_version", s.schema_version},
-          {"reference_elevation_m", s.reference_elevation_m},
-          {"wave_correction", wave_correction_name(s.wave_correction)},
-          {"transects", std::move(transects)},
-          {"sensor_offsets", site_offsets_json(s)},
-          {"sensor_noise", noise_json(s.sensor_noise)},
-          {"cautions", s.cautions}};
+  json j = {{"schema_version", s.schema_version},
+            {"reference_elevation_m", s.reference_elevation_m},
+            {"wave_correction", wave_correction_name(s.wave_correction)},
+            {"transects", std::move(transects)}};
+  j.update(site_level_summary_json(s));
+  j["cautions"] = s.cautions;
+  return j;
 }
 
 }  // namespace strandline

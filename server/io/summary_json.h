@@ -16,4 +16,7 @@ nlohmann::json transect_summary_json(const TransectSummary& summary);
 //  "cautions": [...]}; callers add "provenance".
 nlohmann::json site_summary_json(const SiteSummary& summary);
 
+// {"sensor_offsets", "sensor_noise"}: the site-wide keys of the above.
+nlohmann::json site_level_summary_json(const SiteSummary& summary);
+
 }  // namespace strandline

@@ -240,8 +240,14 @@ TEST_F(HttpService, RunsProduceSeriesWithEtagsChangesAndIncrementalScope) {
   auto summary = client().Get("/v1/sites/cove/summary");
   ASSERT_TRUE(summary && summary->status == 200);
   EXPECT_EQ(json::parse(summary->body)["transects"].size(), 2u);
-  // The summary carries the cautions, as the batch summary does.
+  // The summary carries the cautions, as the batch summary does, and the site-wide
+  // sensor offsets and noise of the latest run (they were only in its provenance).
   EXPECT_GE(json::parse(summary->body)["cautions"].size(), 3u);
+  const json site_offsets = json::parse(summary->body)["sensor_offsets"];
+  ASSERT_TRUE(site_offsets.is_object()) << summary->body;
+  EXPECT_EQ(site_offsets["mode"], "estimate");
+  ASSERT_TRUE(json::parse(summary->body)["sensor_noise"].is_array());
+  EXPECT_FALSE(json::parse(summary->body)["sensor_noise"].empty());
 
   // New points on T2 only: the next default run covers T2 alone.
   const std::string more = "transect_id,time,chainage_m,sensor,image_id\nT2,2020-01-02T12:00:00Z,170,sentinel2a,LATE\n";
