@@ -1,5 +1,7 @@
 #include "server/http/openapi.h"
 
+#include <map>
+#include <stdexcept>
 #include <string>
 #include <vector>
 
@@ -78,6 +80,38 @@ json rows_schema(const std::string& key, json properties, json required) {
                                  {{"type", "object"},
                                   {"properties", {{key, {{"type", "array"}, {"items", row}}}}},
                                   {"required", {key}}}})}};
+}
+
+// One operationId per operation (the names code generators give their methods).
+const std::map<std::string, std::string>& operation_ids() {
+  static const std::map<std::string, std::string> ids = {
+      {"get /healthz", "getHealth"},
+      {"get /metrics", "getMetrics"},
+      {"get /v1/openapi.json", "getOpenApiDocument"},
+      {"post /v1/sites", "createSite"},
+      {"get /v1/sites", "listSites"},
+      {"get /v1/sites/{site}", "getSite"},
+      {"put /v1/sites/{site}/transects", "replaceTransects"},
+      {"get /v1/sites/{site}/transects", "getTransects"},
+      {"post /v1/sites/{site}/observations", "uploadObservations"},
+      {"post /v1/sites/{site}/water-levels", "uploadWaterLevels"},
+      {"post /v1/sites/{site}/waves", "uploadWaves"},
+      {"post /v1/sites/{site}/slopes", "uploadSlopes"},
+      {"post /v1/sites/{site}/tide-constituents", "uploadTideConstituents"},
+      {"post /v1/sites/{site}/shorelines", "uploadShorelines"},
+      {"get /v1/sites/{site}/uploads", "listUploads"},
+      {"get /v1/sites/{site}/uploads/{upload}", "getUpload"},
+      {"delete /v1/sites/{site}/uploads/{upload}", "retractUpload"},
+      {"post /v1/sites/{site}/purge", "purgeRetractedRows"},
+      {"post /v1/sites/{site}/runs", "startRun"},
+      {"get /v1/sites/{site}/runs", "listRuns"},
+      {"get /v1/runs/{run}", "getRun"},
+      {"get /v1/sites/{site}/transects/{transect}/series", "getSeries"},
+      {"get /v1/sites/{site}/summary", "getSummary"},
+      {"get /v1/sites/{site}/changes", "listChanges"},
+      {"get /v1/sites/{site}/export", "exportSite"},
+  };
+  return ids;
 }
 
 json build() {
@@ -194,6 +228,14 @@ json build() {
     paths["/v1/sites/{site}/shorelines"]["post"] = shorelines;
   }
 
+  // Every operation named: a route added without a name fails here (and in the unit test).
+  for (auto& [path, operations] : paths.items())
+    for (auto& [method, operation] : operations.items()) {
+      const auto it = operation_ids().find(method + " " + path);
+      if (it == operation_ids().end()) throw std::logic_error("OpenAPI: no operationId for " + method + " " + path);
+      operation["operationId"] = it->second;
+    }
+
   json schemas;
   schemas["Problem"] = {{"type", "object"},
                         {"description", "RFC 7807 problem details; `type` is stable per kind of error; uploads add `rows`"},
@@ -241,7 +283,10 @@ json build() {
                                     {"progress", {{"type", "object"}, {"properties", {{"transects_done", integer}, {"transects_total", integer},
                                                                                  {"stage", str}, {"stage_index", integer}, {"stage_count", integer},
                                                                                  {"fraction", {{"type", "number"}, {"nullable", true}}}}}}},
-                                    {"timings", {{"type", "object"}, {"properties", {{"created_at", str}, {"started_at", str}, {"finished_at", str}}}}},
+                                    {"timings", {{"type", "object"},
+                                                 {"properties", {{"created_at", str},
+                                                                 {"started_at", {{"type", "string"}, {"nullable", true}}},
+                                                                 {"finished_at", {{"type", "string"}, {"nullable", true}}}}}}},
                                     {"requested_by", str}, {"options", {{"type", "object"}}}, {"provenance", {{"type", "object"}}}, {"href", str}}}};
   schemas["RunPage"] = {{"type", "object"}, {"properties", {{"items", {{"type", "array"}, {"items", ref("Run")}}}, {"next_cursor", {{"type", "string"}, {"nullable", true}}}}}};
   schemas["Series"] = {{"type", "object"},
@@ -261,6 +306,7 @@ json build() {
   return {{"openapi", "3.0.3"},
           {"info", {{"title", "Strandline service"}, {"version", STRANDLINE_VERSION},
                     {"description", "Raw satellite-derived shoreline positions in; corrected, quality-controlled series out."}}},
+          {"servers", json::array({{{"url", "/"}, {"description", "the host serving this document"}}})},
           {"paths", paths},
           {"components", {{"schemas", schemas}, {"securitySchemes", {{"bearer", {{"type", "http"}, {"scheme", "bearer"}}}}}}}};
 }

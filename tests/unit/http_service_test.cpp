@@ -5,6 +5,7 @@
 
 #include <atomic>
 #include <filesystem>
+#include <set>
 #include <sstream>
 #include <thread>
 
@@ -41,6 +42,21 @@ TEST_F(HttpService, HealthMetricsAndOpenApiCoverEveryRoute) {
     EXPECT_TRUE(openapi["paths"].contains(route.path) && openapi["paths"][route.path].contains(method))
         << route.method << " " << route.path << " is not in the OpenAPI document";
   }
+  // Every operation has its own operationId; the document names its server; a queued run's
+  // timings (not started, not finished) are allowed by the schema (they were not).
+  std::set<std::string> ids;
+  std::size_t operations = 0;
+  for (const auto& [path, methods] : openapi["paths"].items())
+    for (const auto& [method, operation] : methods.items()) {
+      ++operations;
+      ASSERT_TRUE(operation.contains("operationId")) << method << " " << path;
+      EXPECT_TRUE(ids.insert(operation["operationId"].get<std::string>()).second) << operation["operationId"];
+    }
+  EXPECT_EQ(ids.size(), operations);
+  EXPECT_EQ(openapi["servers"][0]["url"], "/");
+  const auto& timings = openapi["components"]["schemas"]["Run"]["properties"]["timings"]["properties"];
+  EXPECT_TRUE(timings["started_at"].value("nullable", false));
+  EXPECT_TRUE(timings["finished_at"].value("nullable", false));
   auto m = client().Get("/metrics");
   ASSERT_TRUE(m && m->status == 200);
   EXPECT_NE(m->body.find("strandline_http_requests_total{method=\"GET\",route=\"/healthz\",status=\"200\"} 1"),
