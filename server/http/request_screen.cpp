@@ -4,6 +4,7 @@
 // memory for its body, and its connection is closed rather than left holding
 // an unread body.
 #include <cctype>
+#include <set>
 
 #include "corrections/core/utf8_text.h"
 #include "server/http/service_internal.h"
@@ -125,6 +126,19 @@ const Route* find_route(const std::string& method, const std::string& path) {
   return nullptr;
 }
 
+// The methods the API has for this path ("GET, HEAD, POST"), empty when none.
+std::string allowed_methods(const std::string& path) {
+  std::set<std::string> methods;
+  for (const auto& route : route_table())
+    if (path_matches(route.info.path, path)) {
+      methods.insert(route.info.method);
+      if (route.info.method == "GET") methods.insert("HEAD");
+    }
+  std::string out;
+  for (const auto& m : methods) out += (out.empty() ? "" : ", ") + m;
+  return out;
+}
+
 const std::string& screened_caller() { return t_caller; }
 
 httplib::Server::HandlerResponse screen_request(Service::Impl& service, const httplib::Request& req,
@@ -135,7 +149,19 @@ httplib::Server::HandlerResponse screen_request(Service::Impl& service, const ht
     check_framing(req, service.options);
     const Route* route = find_route(req.method, req.path);
     const bool has_body = req.has_header("Content-Length") || req.has_header("Transfer-Encoding");
+    // A request with neither header has no body (RFC 9112 6.3); cpp-httplib would
+    // wait for one until the connection closes and answer 400. Saying so lets
+    // `POST .../runs` without a body mean "the site's defaults". The request
+    // object is the server's own, handed here before its body is read.
+    if (!has_body && (req.method == "POST" || req.method == "PUT" || req.method == "DELETE"))
+      const_cast<httplib::Request&>(req).set_header("Content-Length", "0");
     if (!route) {
+      // A path the API serves with other methods: 405 with Allow (RFC 9110 15.5.6).
+      if (const std::string allow = allowed_methods(req.path); !allow.empty()) {
+        res.set_header("Allow", allow);
+        throw Problem(405, problem_type::method_not_allowed, "Method not allowed",
+                      req.method + " is not served on " + printable_text(req.path) + "; allowed: " + allow);
+      }
       // GET and HEAD may name a static file of the dashboard; any other method
       // on an unknown path is refused before its body is read.
       if (req.method == "GET" || req.method == "HEAD" || !has_body) return httplib::Server::HandlerResponse::Unhandled;

@@ -78,10 +78,11 @@ std::int64_t Context::query_integer(const std::string& name, std::int64_t fallba
 }
 
 nlohmann::json Context::json_body() const {
+  // GeoJSON's own media type (RFC 7946) is JSON too.
   const std::string type = req.get_header_value("Content-Type");
-  if (type.rfind("application/json", 0) != 0)
+  if (type.rfind("application/json", 0) != 0 && type.rfind("application/geo+json", 0) != 0)
     throw Problem(415, problem_type::unsupported_media_type, "Unsupported media type",
-                  "expected Content-Type application/json, got \"" + type + "\"");
+                  "expected Content-Type application/json (or application/geo+json), got \"" + type + "\"");
   try {
     return parse_json_text(req.body, "body");
   } catch (const JsonTextError& e) {

@@ -34,7 +34,7 @@ struct Context {
   std::optional<std::string> query(const std::string& name) const;
   // A positive integer query parameter with a default and a maximum; 400 otherwise.
   std::int64_t query_integer(const std::string& name, std::int64_t fallback, std::int64_t max) const;
-  nlohmann::json json_body() const;  // 415 unless application/json, 400 on bad JSON
+  nlohmann::json json_body() const;  // 415 unless application/json or geo+json, 400 on bad JSON
   void reply(int status, const nlohmann::json& body);
   void reply_text(int status, std::string body, const std::string& content_type);
   // 404 Problem when the site does not exist.

@@ -107,6 +107,27 @@ TEST_F(HttpService, BadRequestsGetProblemTypes) {
   expect_problem(client().Get("/v1/runs/12345"), 404, "/problems/not-found");
 }
 
+TEST_F(HttpService, HttpRoughEdgesAreSmoothed) {
+  // A known path with another method: 405 with Allow (was 404 "no route").
+  start();
+  create_demo_site();
+  auto wrong = client().Delete("/v1/sites", auth(write_key_));
+  expect_problem(wrong, 405, "/problems/method-not-allowed");
+  EXPECT_EQ(wrong->get_header_value("Allow"), "GET, HEAD, POST");
+  auto get_purge = client().Get("/v1/sites/cove/purge");
+  expect_problem(get_purge, 405, "/problems/method-not-allowed");
+  EXPECT_EQ(get_purge->get_header_value("Allow"), "POST");
+  // POST .../runs with no body at all (no Content-Length): the site's defaults (was 400).
+  const std::string reply = raw_exchange(port_, "POST /v1/sites/cove/runs HTTP/1.1\r\nHost: x\r\nAuthorization: Bearer " +
+                                                    write_key_ + "\r\nConnection: close\r\n\r\n");
+  ASSERT_EQ(status_of(reply), 202) << reply;
+  EXPECT_EQ(wait_for_run(body_of(reply)["run_id"].get<std::int64_t>())["state"], "done");
+  // GeoJSON's own media type for the transects (was 415).
+  auto geo = client().Put("/v1/sites/cove/transects", auth(write_key_), kTransects, "application/geo+json");
+  ASSERT_TRUE(geo);
+  EXPECT_EQ(geo->status, 200) << geo->body;
+}
+
 TEST_F(HttpService, ObservationUploadsAreAllOrNothingIdempotentAndConflictChecked) {
   start();
   create_demo_site();
