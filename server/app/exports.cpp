@@ -5,6 +5,7 @@
 #include <unordered_map>
 
 #include "corrections/core/csv_reader.h"
+#include "corrections/core/errors.h"
 #include "server/geo/plain_table_io.h"
 #include "server/geo/result_writer.h"
 #include "server/geo/transect_reader.h"
@@ -17,14 +18,30 @@ geo::TransectSet attach_transect_geometry(const std::string& path, SiteTable& ta
   std::unordered_map<std::string, const TransectGeometry*> by_id;
   for (const auto& t : set.transects) by_id.emplace(t.id, &t.geometry);
   std::size_t missing = 0;
+  std::string missing_ids;  // the first few, for the message
   for (TransectInfo& t : table.transects) {
     auto it = by_id.find(t.id);
-    if (it == by_id.end()) ++missing;
-    else t.geometry = *it->second;
+    if (it == by_id.end()) {
+      if (++missing <= 5) missing_ids += (missing_ids.empty() ? "" : ", ") + t.id;
+    } else {
+      t.geometry = *it->second;
+    }
+  }
+  // Not one id in common: the wrong file, or ids spelt differently. Every output would
+  // lack geometry (it was exit 0 with points without geometry).
+  if (!table.transects.empty() && missing == table.transects.size()) {
+    std::string file_ids;
+    for (std::size_t k = 0; k < set.transects.size() && k < 5; ++k)
+      file_ids += (k ? ", " : "") + set.transects[k].id;
+    throw InputError(path + ": none of the observations' transect ids (" + missing_ids +
+                     (missing > 5 ? ", ..." : "") + ") is in this file (its ids: " +
+                     (file_ids.empty() ? "none" : file_ids) + (set.transects.size() > 5 ? ", ..." : "") + ")");
   }
   std::cerr << "work CRS: " << set.crs.name << (set.crs.authority.empty() ? "" : " (" + set.crs.authority + ")")
             << " - " << set.crs.choice << "\n";
-  if (missing) std::cerr << "warning: " << missing << " transects of the observations are not in " << path << "\n";
+  if (missing)
+    std::cerr << "warning: " << missing << " transects of the observations are not in " << path << " ("
+              << missing_ids << (missing > 5 ? ", ..." : "") << "): their points have no geometry\n";
   return set;
 }
 

@@ -81,6 +81,11 @@ int run_runup(const CommandArgs& argv) {
        "linear-theory deshoaling (Fenton & McKee 1990 start, Newton), no refraction; Stockdon et al. 2006"},
   };
   std::cout << out.dump(2) << "\n";
+  // Said where a person reads it too, not only inside the JSON.
+  if (nearshore && hs > 0.78 * depth)
+    std::cerr << "warning: Hs " << hs << " m exceeds 0.78 x depth " << depth
+              << " m: the record is in the surf zone, where linear deshoaling does not hold "
+                 "(depth_limited_record)\n";
   return kExitOk;
 }
 

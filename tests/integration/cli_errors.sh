@@ -195,6 +195,21 @@ printf 'time,level_m\n2019-03-01T00:00:00Z,0.1\n2019-03-01T02:00:00Z,0.5\n2019-0
   grep -q "coarse_gauge" "$tmp/coarse.csv"
 check coarse_gauge_is_reported $? "exit $got: $(cat "$tmp/coarse.err")"
 
+# A transect file sharing no id with the observations is an error naming both sides (it was exit
+# 0 with every point left without geometry).
+cat > "$tmp/other_transects.geojson" <<'JSON'
+{"type":"FeatureCollection","features":[{"type":"Feature","properties":{"transect_id":"X9","azimuth_deg":90,"length_m":400},
+ "geometry":{"type":"Point","coordinates":[3.0,53.0]}}]}
+JSON
+expect transects_share_no_id 2 "none of the observations' transect ids (T1) is in this file (its ids: X9)" -- \
+  correct --observations "$tmp/good.csv" --water-levels "$tmp/wl.csv" --slope 0.1 \
+  --transects "$tmp/other_transects.geojson" --out "$tmp/out.csv"
+check transects_share_no_id_writes_nothing "$([[ ! -e $tmp/out.csv ]]; echo $?)" "an output was written"
+
+# runup's depth-limited record is said on standard error, not only inside the JSON.
+expect runup_depth_limited_warns 0 'warning: Hs 5 m exceeds 0.78 x depth 5 m' -- \
+  runup --hs 5 --tp 10 --slope 0.05 --depth 5
+
 # The geometry options carry names of our own; the old ones are refused, naming what is expected.
 expect crossing_rule_renamed 2 'expected outermost, innermost or omit' -- \
   intersect --shorelines "$tmp/none.geojson" --transects "$tmp/none.geojson" --crossing most-seaward --out "$tmp/x.csv"
