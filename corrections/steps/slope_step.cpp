@@ -193,7 +193,7 @@ void SlopeStep::estimate(SiteTable& table, std::size_t transect, const RunInputs
       ++solves;
       for (std::size_t k = 0; k < x.size(); ++k) {
         const bool sea_state = known(h0[k]) && known(l0[k]);
-        const double setup_level = sea_state && dissipative[k] ? kStockdonDissipativeSetupCoefficient * std::sqrt(h0[k] * l0[k]) : 0.0;
+        const double setup_level = sea_state && dissipative[k] ? stockdon_terms(h0[k], l0[k], 0.0).setup_dissipative_m : 0.0;  // slope-free
         horizontal[k] = sea_state && !dissipative[k] ? setup_horizontal_m(h0[k], l0[k]) : 0.0;
         level[k] = w[k] + setup_level;
       }

@@ -21,6 +21,7 @@
 #include "corrections/water_level/gauge_series.h"
 #include "corrections/waves/wave_record.h"
 #include "demo_data/synthetic/synthetic_site.h"
+#include "tests/unit/synthetic_table.h"
 #include "qc/robust_stats.h"
 
 namespace strandline::bench {
@@ -44,14 +45,7 @@ inline std::unique_ptr<GeneratedRun> run_generated_site(const synthetic::SitePar
   auto run = std::make_unique<GeneratedRun>();
   run->site = synthetic::generate_site(params);
   const auto& site = run->site;
-  SiteTableBuilder b;
-  for (std::size_t k = 0; k < site.points.size(); ++k) {
-    const auto& p = site.points[k];
-    const auto& img = site.images[p.image];
-    b.add(b.transect_index(site.transects[p.transect].id), b.image_index(img.id), b.sensor_index(img.sensor),
-          {static_cast<std::uint32_t>(k), p.time_s, p.chainage_raw_m, p.cloud_fraction, p.georef_rmse_m});
-  }
-  run->table = std::move(b).build();
+  run->table = synthetic_test::table_of(site);
   for (auto& t : run->table.transects)
     for (const auto& truth : site.transects)
       if (with_geometry && truth.id == t.id) t.geometry = {truth.origin_x_m, truth.origin_y_m, truth.azimuth_deg, truth.length_m};
